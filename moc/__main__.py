@@ -1,0 +1,3 @@
+from moc.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,1 @@
+"""One module per `moc` command (see moc/cli.py for the protocol)."""

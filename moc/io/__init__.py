@@ -1,0 +1,1 @@
+"""Input and output at the edge: case files, saved results, exports."""

@@ -66,11 +66,12 @@ def mach_from_area_ratio(ratio, gamma=1.4, supersonic=True):
     """
     g = check_gamma(gamma)
     a, s = as_float_array(ratio, "area ratio A/A*")
-    bad = a < 1.0
+    bad = a < 1.0 - 1e-12
     if np.any(bad):
         raise InputError(
             f"area ratio A/A* must be at least 1 (A* is the smallest section), got {fmt(a[bad].ravel()[0])}."
         )
+    a = np.maximum(a, 1.0)  # round-off below 1 at the sonic point
     target = np.log(a)
     if supersonic:
         # A/A* ~ M^((g+1)/(g-1)) / const for large M: bracket generously.

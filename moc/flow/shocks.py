@@ -78,7 +78,7 @@ def max_deflection(mach, gamma=1.4):
     g = check_gamma(gamma)
     m, s = check_mach(mach, supersonic=True, name="upstream Mach number")
     bm = _beta_max(m, g)
-    return out(_theta(m, bm, g), s), out(bm, s)
+    return out(np.maximum(_theta(m, bm, g), 0.0), s), out(bm, s)
 
 
 def sonic_deflection(mach, gamma=1.4):
@@ -105,13 +105,14 @@ def shock_angle(mach, theta, gamma=1.4, root="weak"):
     m, th = np.broadcast_arrays(m, th)
     m = m.astype(float)
     th = th.astype(float)
-    if np.any(th < 0):
+    if np.any(th < -1e-12):
         raise InputError(
-            f"deflection angle must be at least 0 deg for a compression shock, got {np.degrees(th[th < 0].ravel()[0]):.6g} deg."
+            f"deflection angle must be at least 0 deg for a compression shock, got {np.degrees(th[th < -1e-12].ravel()[0]):.6g} deg."
         )
+    th = np.maximum(th, 0.0)
     bm = _beta_max(m, g)
-    tmax = _theta(m, bm, g)
-    over = th > tmax * (1.0 + 1e-13)
+    tmax = np.maximum(_theta(m, bm, g), 0.0)
+    over = th > tmax * (1.0 + 1e-13) + 1e-15
     if np.any(over):
         i = np.flatnonzero(over.ravel())[0]
         raise DetachedShockError(

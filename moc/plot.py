@@ -1,0 +1,545 @@
+"""Figures of a saved design or analysis (matplotlib, headless Agg backend).
+
+Every function reads a `moc.result.Result` and nothing else; none recomputes
+the flow.  Lengths are drawn in real units when the inputs give the throat
+size (``inputs["throat"] = {"value": ..., "unit": ...}``), else in throat
+half-heights / radii.  Angles are shown in degrees.
+
+The look is this project's own: the two characteristic families differ in
+colour *and* line style (C+ solid, C- dashed) so grey-scale prints keep them
+apart; colours come from a colour-blind-safe set (Okabe and Ito, "Color
+Universal Design", 2008) and the Mach field uses the perceptually uniform,
+colour-vision-deficiency-friendly ``cividis`` map (Nunez, Anderton and
+Renslow, PLOS ONE 13(7), 2018).
+
+Public API: plot_net, plot_mach_field, plot_wall, plot_distributions,
+plot_exit, plot_shocks, figure_for, save_figure, overview, FIGURES.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")  # headless: never needs a display
+
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+from matplotlib.collections import LineCollection  # noqa: E402
+from matplotlib.figure import Figure  # noqa: E402
+from matplotlib.ticker import FuncFormatter, MaxNLocator  # noqa: E402
+from matplotlib.tri import Triangulation  # noqa: E402
+
+from moc.errors import ComputationError, ExportError, InputError  # noqa: E402
+from moc.io.atomic import atomic_path  # noqa: E402
+
+# -- palette (colour-blind safe, distinct in grey-scale through style too) ----
+INK = "#1a1a1a"          # wall, text
+CPLUS = "#0B4F8A"        # deep blue, solid (darker than C- in grey-scale)
+CMINUS = "#D55E00"       # vermillion, dashed
+AXIS = "#7a7a7a"         # centreline, dash-dot
+SHOCK = "#CC79A7"        # reddish purple, thick with markers
+ACCENT = "#009E73"       # bluish green (exit / second curve)
+ACCENT2 = "#E69F00"      # orange
+CMAP = "cividis"
+
+STYLE = {
+    "cplus": dict(color=CPLUS, linestyle="-", linewidth=0.55),
+    "cminus": dict(color=CMINUS, linestyle=(0, (4, 2)), linewidth=0.55),
+    "wall": dict(color=INK, linestyle="-", linewidth=2.0),
+    "axis": dict(color=AXIS, linestyle="-.", linewidth=0.9),
+    "shock": dict(color=SHOCK, linestyle="-", linewidth=2.2, marker="D", markersize=3.5,
+                  markevery=0.1),
+}
+
+#: Formats `save_figure` writes, by file suffix.
+FORMATS = ("png", "svg", "pdf")
+
+#: Figure names accepted by `moc plot --what` and `figure_for`, in order.
+FIGURES = ("net", "mach", "wall", "distributions", "exit", "shocks")
+
+#: Default figure size in inches (width, height) of each named figure.
+SIZES = {
+    "net": (10.0, 4.8),
+    "mach": (10.0, 4.8),
+    "wall": (10.0, 4.8),
+    "distributions": (9.0, 7.0),
+    "exit": (9.0, 4.2),
+    "shocks": (10.0, 4.8),
+    "overview": (10.0, 8.0),
+}
+
+_MAX_LINES = 80  # per family, so that very fine nets stay legible
+
+
+# -- helpers -------------------------------------------------------------------
+def _geometry(result):
+    return str(result.summary.get("geometry", result.inputs.get("geometry", "planar")))
+
+
+def _is_axi(result):
+    return _geometry(result).lower().startswith("axi")
+
+
+def length_scale(result):
+    """Return (scale, unit, real) so that real length = scale * throat-units length.
+
+    When the inputs give no throat size the scale is 1 and the unit names
+    the throat half-height (planar) or radius (axisymmetric).
+    """
+    t = result.inputs.get("throat") if isinstance(result.inputs, dict) else None
+    if isinstance(t, dict) and "value" in t:
+        try:
+            v = float(t["value"])
+        except (TypeError, ValueError):
+            v = float("nan")
+        if np.isfinite(v) and v > 0:
+            return v, str(t.get("unit", "")), True
+    return 1.0, ("r*" if _is_axi(result) else "h*"), False
+
+
+def _len_label(result, coord):
+    scale, unit, real = length_scale(result)
+    if real:
+        return f"{coord} ({unit})"
+    return f"{coord} / {unit}"
+
+
+def _radial_name(result):
+    return "r" if _is_axi(result) else "y"
+
+
+def _new_axes(ax, size):
+    if ax is not None:
+        return ax.figure, ax
+    fig = Figure(figsize=size, layout="constrained")
+    return fig, fig.add_subplot(1, 1, 1)
+
+
+def _arr(d, key):
+    v = d.get(key) if isinstance(d, dict) else None
+    if v is None:
+        return np.zeros(0)
+    return np.asarray(v, dtype=float).ravel()
+
+
+def _require_wall(result):
+    x, y = _arr(result.wall, "x"), _arr(result.wall, "y")
+    if x.size < 2 or x.size != y.size:
+        raise InputError("the result has no wall contour (need at least two wall points x, y) to draw.")
+    return x, y
+
+
+def _subsample(lines, limit):
+    if len(lines) <= limit:
+        return lines
+    keep = np.unique(np.round(np.linspace(0, len(lines) - 1, limit)).astype(int))
+    return [lines[k] for k in keep]
+
+
+def _draw_wall(ax, result, scale, label="wall"):
+    x, y = _arr(result.wall, "x"), _arr(result.wall, "y")
+    if x.size:
+        ax.plot(x * scale, y * scale, label=label, zorder=5, **STYLE["wall"])
+    ix, iy = _arr(result.inlet, "x"), _arr(result.inlet, "y")
+    if ix.size and ix.size == iy.size:
+        ax.plot(ix * scale, iy * scale, zorder=5, **STYLE["wall"])
+
+
+def _draw_axis(ax, result, scale):
+    xs = [a for a in (_arr(result.wall, "x"), _arr(result.inlet, "x"), result.net.x) if a.size]
+    if not xs:
+        return
+    lo = min(float(a.min()) for a in xs)
+    hi = max(float(a.max()) for a in xs)
+    ax.plot([lo * scale, hi * scale], [0.0, 0.0], label="centreline", zorder=4, **STYLE["axis"])
+
+
+def _finish_xy(ax, result, title):
+    ax.set_xlabel(_len_label(result, "x"))
+    ax.set_ylabel(_len_label(result, _radial_name(result)))
+    ax.set_aspect("equal", adjustable="datalim")
+    ax.grid(True, color="#d9d9d9", linewidth=0.5)
+    ax.set_title(title, loc="left", fontsize=11)
+
+
+def _title(result, what):
+    s = result.summary
+    bits = [what]
+    if "exit_mach" in s:
+        bits.append(f"exit M = {float(s['exit_mach']):.4g}")
+    if "gamma" in s:
+        bits.append(f"gamma = {float(s['gamma']):.4g}")
+    bits.append(_geometry(result))
+    return ", ".join(bits)
+
+
+# -- the figures ---------------------------------------------------------------
+def plot_net(result, ax=None, max_lines=_MAX_LINES):
+    """Draw the characteristic net: C+ solid blue, C- dashed vermillion, the wall and axis."""
+    fig, ax = _new_axes(ax, SIZES["net"])
+    net = result.net
+    scale, _, _ = length_scale(result)
+    if net.size == 0:
+        raise InputError("the result has an empty characteristic net; nothing to draw.")
+    pts = np.column_stack([net.x, net.y]) * scale
+    for fam, key, name in (("+", "cplus", "C+ (left-running)"), ("-", "cminus", "C- (right-running)")):
+        lines = [idx for idx in net.lines(fam) if idx.size >= 2]
+        lines = _subsample(lines, max_lines)
+        if lines:
+            lc = LineCollection([pts[idx] for idx in lines], label=name, zorder=2, **STYLE[key])
+            ax.add_collection(lc)
+    _draw_wall(ax, result, scale)
+    _draw_axis(ax, result, scale)
+    ax.autoscale_view()
+    ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
+    _finish_xy(ax, result, _title(result, "Characteristic net"))
+    return fig
+
+
+def triangulation(result):
+    """Triangles of the net: each quad cell split in two; repeated indices give triangles.
+
+    Cells with zero area are dropped.  Without cells, a Delaunay triangulation
+    of the points is used, with triangles much longer than the typical edge
+    masked so that concave outlines are not filled across.
+    """
+    net = result.net
+    scale, _, _ = length_scale(result)
+    x, y = net.x * scale, net.y * scale
+    tris = []
+    c = net.cells
+    if c.size:
+        for a, b, d in ((0, 1, 2), (0, 2, 3)):
+            tris.append(c[:, [a, b, d]])
+        t = np.vstack(tris)
+        distinct = (t[:, 0] != t[:, 1]) & (t[:, 1] != t[:, 2]) & (t[:, 0] != t[:, 2])
+        t = t[distinct]
+        area = 0.5 * ((x[t[:, 1]] - x[t[:, 0]]) * (y[t[:, 2]] - y[t[:, 0]])
+                      - (x[t[:, 2]] - x[t[:, 0]]) * (y[t[:, 1]] - y[t[:, 0]]))
+        t = t[np.abs(area) > 1e-14 * max(1.0, float(np.ptp(x) * np.ptp(y)))]
+        # matplotlib wants counter-clockwise triangles
+        area = 0.5 * ((x[t[:, 1]] - x[t[:, 0]]) * (y[t[:, 2]] - y[t[:, 0]])
+                      - (x[t[:, 2]] - x[t[:, 0]]) * (y[t[:, 1]] - y[t[:, 0]]))
+        t = np.where((area < 0)[:, None], t[:, [0, 2, 1]], t)
+        if len(t):
+            return Triangulation(x, y, t)
+    if x.size < 3:
+        raise InputError("the net has fewer than three points; no Mach field can be drawn.")
+    tri = Triangulation(x, y)
+    e = np.hypot(np.diff(x[tri.triangles][:, [0, 1, 2, 0]], axis=1),
+                 np.diff(y[tri.triangles][:, [0, 1, 2, 0]], axis=1)).max(axis=1)
+    tri.set_mask(e > 5.0 * np.median(e))
+    return tri
+
+
+def plot_mach_field(result, ax=None, levels=24, show_net=True):
+    """Filled Mach-number contours on the triangulated net, with a labelled colour bar."""
+    fig, ax = _new_axes(ax, SIZES["mach"])
+    net = result.net
+    m = net.mach
+    if not np.all(np.isfinite(m)):
+        raise ComputationError("the net holds non-finite Mach numbers; the saved result is damaged.")
+    tri = triangulation(result)
+    lo, hi = float(m.min()), float(m.max())
+    if hi - lo < 1e-9:
+        hi = lo + 1e-6
+    cs = ax.tricontourf(tri, m, levels=np.linspace(lo, hi, levels + 1), cmap=CMAP, zorder=1)
+    scale, _, _ = length_scale(result)
+    if show_net:
+        pts = np.column_stack([net.x, net.y]) * scale
+        for fam, key in (("+", "cplus"), ("-", "cminus")):
+            lines = _subsample([i for i in net.lines(fam) if i.size >= 2], 30)
+            st = dict(STYLE[key])
+            st.update(color="white", linewidth=0.35, alpha=0.55)
+            ax.add_collection(LineCollection([pts[i] for i in lines], zorder=2, **st))
+    _draw_wall(ax, result, scale)
+    _draw_axis(ax, result, scale)
+    cb = fig.colorbar(cs, ax=ax, shrink=0.9, pad=0.01, ticks=MaxNLocator(8).tick_values(lo, hi))
+    cb.set_label("Mach number M")
+    cb.ax.set_ylim(lo, hi)
+    ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
+    _finish_xy(ax, result, _title(result, "Mach-number field"))
+    return fig
+
+
+def _dimension(ax, p0, p1, text, offset=(0, 0), color=INK, rotation=0):
+    ax.annotate("", xy=p1, xytext=p0,
+                arrowprops=dict(arrowstyle="<|-|>", color=color, linewidth=0.9, shrinkA=0, shrinkB=0))
+    mx, my = 0.5 * (p0[0] + p1[0]) + offset[0], 0.5 * (p0[1] + p1[1]) + offset[1]
+    ax.text(mx, my, text, ha="center", va="center", fontsize=9, color=color, rotation=rotation,
+            bbox=dict(boxstyle="round,pad=0.2", facecolor="white", edgecolor="none", alpha=0.9))
+
+
+def plot_wall(result, ax=None):
+    """The wall contour in real units with the throat, exit and length dimensions annotated."""
+    fig, ax = _new_axes(ax, SIZES["wall"])
+    x, y = _require_wall(result)
+    scale, unit, real = length_scale(result)
+    u = unit
+    X, Y = x * scale, y * scale
+    _draw_wall(ax, result, scale)
+    _draw_axis(ax, result, scale)
+    ax.fill_between(X, Y, 0.0, color="#eeeeee", zorder=0)
+    axi = _is_axi(result)
+    name_t = "throat radius" if axi else "throat half-height"
+    name_e = "exit radius" if axi else "exit half-height"
+    k0 = int(np.argmin(Y))  # the throat is the smallest section
+    yt = float(Y[k0])
+    ye = float(Y[-1])
+    span = float(X.max() - min(X.min(), 0.0)) or 1.0
+    def fmtn(v):
+        return f"{v:.4g} {u}"
+
+    _dimension(ax, (X[k0], 0.0), (X[k0], yt), f"{name_t}\n{fmtn(yt)}", offset=(0.09 * span, 0))
+    _dimension(ax, (X[-1], 0.0), (X[-1], ye), f"{name_e}\n{fmtn(ye)}", offset=(-0.09 * span, 0))
+    ylen = -0.12 * max(ye, yt)
+    _dimension(ax, (X[k0], ylen), (X[-1], ylen), f"length throat to exit {fmtn(X[-1] - X[k0])}")
+    ax.plot([X[k0], X[k0]], [ylen, 0], color=INK, linewidth=0.5)
+    ax.plot([X[-1], X[-1]], [ylen, 0], color=INK, linewidth=0.5)
+    s = result.summary
+    notes = []
+    if "area_ratio" in s:
+        notes.append(f"exit area ratio A/A* = {float(s['area_ratio']):.5g}")
+    if s.get("corner_angle_deg") is not None:
+        notes.append(f"corner angle = {float(s['corner_angle_deg']):.4g} deg")
+    if s.get("max_wall_angle_deg") is not None:
+        notes.append(f"max wall angle = {float(s['max_wall_angle_deg']):.4g} deg")
+    if not real:
+        notes.append("lengths in throat units (no throat size given)")
+    if notes:
+        ax.text(0.99, 0.03, "\n".join(notes), transform=ax.transAxes, ha="right", va="bottom", fontsize=8.5,
+                bbox=dict(boxstyle="round,pad=0.3", facecolor="white", edgecolor="#bbbbbb"))
+    ax.set_ylim(ylen * 1.6, max(Y.max(), 1e-12) * 1.15)
+    _finish_xy(ax, result, _title(result, "Wall contour"))
+    ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
+    return fig
+
+
+def _p_over_p0(mach, gamma, p0_ratio=None):
+    from moc.flow import pressure_ratio
+
+    p = np.asarray(pressure_ratio(np.maximum(mach, 0.0), gamma), dtype=float)
+    if p0_ratio is not None and np.size(p0_ratio) == np.size(p):
+        p = p * np.asarray(p0_ratio, dtype=float)
+    return p
+
+
+def _gamma(result):
+    g = result.summary.get("gamma", result.inputs.get("gamma", 1.4))
+    if isinstance(g, dict):
+        g = g.get("value", 1.4)
+    return float(g)
+
+
+def plot_distributions(result, fig=None):
+    """Wall and centreline Mach number (top) and pressure p/p0 (bottom, log scale) against x."""
+    if fig is None:
+        fig = Figure(figsize=SIZES["distributions"], layout="constrained")
+    ax1, ax2 = fig.subplots(2, 1, sharex=True)
+    scale, _, _ = length_scale(result)
+    g = _gamma(result)
+    wx, wm = _arr(result.wall, "x"), _arr(result.wall, "mach")
+    ax_, am = _arr(result.axis, "x"), _arr(result.axis, "mach")
+    drawn = False
+    if wx.size and wm.size == wx.size:
+        ax1.plot(wx * scale, wm, color=INK, linestyle="-", linewidth=1.6, label="wall")
+        wp = _arr(result.wall, "p_p0")
+        if wp.size != wx.size:
+            wp = _p_over_p0(wm, g)
+        ax2.semilogy(wx * scale, wp, color=INK, linestyle="-", linewidth=1.6, label="wall")
+        drawn = True
+    if ax_.size and am.size == ax_.size:
+        ax1.plot(ax_ * scale, am, color=ACCENT, linestyle=(0, (5, 2)), linewidth=1.6, marker="o",
+                 markersize=2.5, markevery=max(1, ax_.size // 25), label="centreline")
+        ap = _arr(result.axis, "p_p0")
+        if ap.size != ax_.size:
+            ap = _p_over_p0(am, g)
+        ax2.semilogy(ax_ * scale, ap, color=ACCENT, linestyle=(0, (5, 2)), linewidth=1.6, marker="o",
+                     markersize=2.5, markevery=max(1, ax_.size // 25), label="centreline")
+        drawn = True
+    if not drawn:
+        raise InputError("the result has neither wall nor centreline Mach numbers to plot.")
+    me = result.summary.get("exit_mach")
+    if me is not None:
+        ax1.axhline(float(me), color=ACCENT2, linestyle=":", linewidth=1.2, label=f"design exit M = {float(me):.4g}")
+        ax2.axhline(float(_p_over_p0(np.array([float(me)]), g)[0]), color=ACCENT2, linestyle=":", linewidth=1.2,
+                    label="isentropic p/p0 at exit M")
+    for sh in result.shocks:
+        sx = _arr(sh, "x")
+        if sx.size:
+            for a in (ax1, ax2):
+                a.axvspan(sx.min() * scale, sx.max() * scale, color=SHOCK, alpha=0.12, linewidth=0)
+    ax1.set_ylabel("Mach number M")
+    ax2.set_ylabel("static pressure p / p0 (log scale)")
+    plain = FuncFormatter(lambda v, _: f"{v:.3g}")
+    ax2.yaxis.set_major_formatter(plain)
+    ax2.yaxis.set_minor_formatter(plain)
+    ax2.set_xlabel(_len_label(result, "x"))
+    for a in (ax1, ax2):
+        a.grid(True, color="#d9d9d9", linewidth=0.5)
+        a.legend(fontsize=8, framealpha=0.9)
+    ax1.set_title(_title(result, "Wall and centreline distributions"), loc="left", fontsize=11)
+    return fig
+
+
+def plot_exit(result, fig=None):
+    """Mach number and flow angle (deg) across the exit section against y (or r)."""
+    if fig is None:
+        fig = Figure(figsize=SIZES["exit"], layout="constrained")
+    ey, em, et = _arr(result.exit, "y"), _arr(result.exit, "mach"), _arr(result.exit, "theta")
+    if ey.size < 2 or em.size != ey.size:
+        raise InputError("the result has no exit profile (exit y and mach) to plot.")
+    ax1, ax2 = fig.subplots(1, 2)
+    scale, _, _ = length_scale(result)
+    order = np.argsort(ey)
+    Y = ey[order] * scale
+    ax1.plot(em[order], Y, color=CPLUS, linestyle="-", marker="o", markersize=3,
+             markevery=max(1, ey.size // 20), label="computed")
+    me = result.summary.get("exit_mach")
+    if me is not None:
+        ax1.axvline(float(me), color=ACCENT2, linestyle=":", linewidth=1.4, label=f"design M = {float(me):.4g}")
+    ax1.set_xlabel("Mach number M")
+    ax1.set_ylabel(_len_label(result, _radial_name(result)))
+    if et.size == ey.size:
+        ax2.plot(np.degrees(et[order]), Y, color=CMINUS, linestyle=(0, (4, 2)), marker="s", markersize=3,
+                 markevery=max(1, ey.size // 20), label="computed")
+        ax2.axvline(0.0, color=AXIS, linestyle="-.", linewidth=1.0, label="axial (0 deg)")
+    ax2.set_xlabel("flow angle theta (deg)")
+    ax2.set_ylabel(_len_label(result, _radial_name(result)))
+    for a in (ax1, ax2):
+        a.grid(True, color="#d9d9d9", linewidth=0.5)
+        a.legend(fontsize=8, framealpha=0.9)
+        a.ticklabel_format(axis="x", useOffset=False)
+    dev = result.summary.get("exit_mach_max_dev")
+    extra = f" (max |M - Me| = {float(dev):.3g})" if dev is not None else ""
+    fig.suptitle(_title(result, "Exit profile") + extra, x=0.01, ha="left", fontsize=11)
+    return fig
+
+
+def coalescence_point(summary):
+    """(x, y) of the characteristic coalescence point from a summary, or None."""
+    for key in ("coalescence", "coalescence_point"):
+        v = summary.get(key)
+        if isinstance(v, dict) and "x" in v and "y" in v:
+            return float(v["x"]), float(v["y"])
+        if isinstance(v, (list, tuple)) and len(v) == 2:
+            return float(v[0]), float(v[1])
+    if "coalescence_x" in summary and "coalescence_y" in summary:
+        return float(summary["coalescence_x"]), float(summary["coalescence_y"])
+    return None
+
+
+def plot_shocks(result, ax=None):
+    """Shock paths over a faint net, with the coalescence point marked when there is one."""
+    fig, ax = _new_axes(ax, SIZES["shocks"])
+    net = result.net
+    scale, _, _ = length_scale(result)
+    if net.size:
+        pts = np.column_stack([net.x, net.y]) * scale
+        for fam, key in (("+", "cplus"), ("-", "cminus")):
+            lines = _subsample([i for i in net.lines(fam) if i.size >= 2], 40)
+            st = dict(STYLE[key])
+            st.update(alpha=0.35)
+            ax.add_collection(LineCollection([pts[i] for i in lines], zorder=1, **st))
+    _draw_wall(ax, result, scale)
+    _draw_axis(ax, result, scale)
+    n = 0
+    for k, sh in enumerate(result.shocks):
+        sx, sy = _arr(sh, "x"), _arr(sh, "y")
+        if sx.size >= 1 and sx.size == sy.size:
+            ax.plot(sx * scale, sy * scale, zorder=6, label="shock" if n == 0 else None, **STYLE["shock"])
+            pr = _arr(sh, "p2_p1")
+            if pr.size == sx.size:
+                j = int(np.argmax(pr))
+                ax.annotate(f"shock {k + 1}: max p2/p1 = {pr[j]:.3g}", (sx[j] * scale, sy[j] * scale),
+                            xytext=(-6, 10), textcoords="offset points", fontsize=8, color=INK, ha="right",
+                            bbox=dict(boxstyle="round,pad=0.2", facecolor="white", edgecolor="none", alpha=0.85))
+            n += 1
+    if n == 0:
+        for k, sh in enumerate(result.summary.get("shocks") or []):
+            if isinstance(sh, dict) and all(q in sh for q in ("start_x", "start_y", "end_x", "end_y")):
+                ax.plot([sh["start_x"] * scale, sh["end_x"] * scale], [sh["start_y"] * scale, sh["end_y"] * scale],
+                        zorder=6, label="shock" if n == 0 else None, **STYLE["shock"])
+                n += 1
+    cp = coalescence_point(result.summary)
+    if cp is not None:
+        ax.plot(cp[0] * scale, cp[1] * scale, linestyle="none", marker="*", markersize=14,
+                markerfacecolor=ACCENT2, markeredgecolor=INK, zorder=7, label="first coalescence")
+    if n == 0 and cp is None:
+        ax.text(0.5, 0.5, "no shock found in this result", transform=ax.transAxes, ha="center",
+                va="center", fontsize=12, color=INK,
+                bbox=dict(boxstyle="round,pad=0.4", facecolor="white", edgecolor="#bbbbbb"))
+    ax.autoscale_view()
+    ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
+    _finish_xy(ax, result, _title(result, "Internal shocks"))
+    return fig
+
+
+_PLOTTERS = {
+    "net": plot_net,
+    "mach": plot_mach_field,
+    "wall": plot_wall,
+    "distributions": plot_distributions,
+    "exit": plot_exit,
+    "shocks": plot_shocks,
+}
+
+
+def figure_for(result, name):
+    """Return a new Figure of the named kind (one of FIGURES)."""
+    if name not in _PLOTTERS:
+        raise InputError(f"unknown figure {name!r}; choose from {', '.join(FIGURES)} or all.")
+    return _PLOTTERS[name](result)
+
+
+def save_figure(fig, path, force=False, dpi=150):
+    """Write a Figure to `path` atomically; the format comes from the suffix (png, svg, pdf)."""
+    path = Path(path)
+    fmt = path.suffix.lower().lstrip(".")
+    if fmt not in FORMATS:
+        raise ExportError(f"cannot write a figure as {path.name!r}; use a .png, .svg or .pdf file name.")
+    try:
+        dpi = float(dpi)
+    except (TypeError, ValueError):
+        dpi = float("nan")
+    if not (np.isfinite(dpi) and 10 <= dpi <= 1200):
+        raise InputError(f"dpi must be a number between 10 and 1200, got {dpi!r}.")
+    with atomic_path(path, force=force) as tmp:
+        fig.savefig(tmp, format=fmt, dpi=dpi, metadata=_metadata(fmt))
+        readable(tmp)
+    plt.close(fig)
+    return path
+
+
+def readable(path):
+    """Give a freshly written temporary file the usual permissions (0666 less the umask).
+
+    Temporary files are created private (0600); a finished figure or report
+    should be as readable as any other file the user writes.
+    """
+    mask = os.umask(0)
+    os.umask(mask)
+    os.chmod(path, 0o666 & ~mask)
+
+
+def _metadata(fmt):
+    if fmt == "png":
+        return {"Software": "moc"}
+    if fmt == "svg":
+        return {"Creator": "moc"}
+    return {"Creator": "moc"}
+
+
+def overview(result, path, force=True, dpi=130):
+    """Write one image of the net over the Mach field (top) and the dimensioned wall (bottom)."""
+    fig = Figure(figsize=SIZES["overview"], layout="constrained")
+    a1, a2 = fig.subplots(2, 1)
+    if result.net.size >= 3:
+        plot_mach_field(result, ax=a1)
+    else:
+        plot_net(result, ax=a1)
+    plot_wall(result, ax=a2)
+    return save_figure(fig, path, force=force, dpi=dpi)

@@ -189,6 +189,11 @@ def validate(raw: dict, source="<flags>") -> Case:
 
 def load(path) -> Case:
     """Read and validate a TOML case file."""
+    return validate(read_raw(path), source=str(path))
+
+
+def read_raw(path) -> dict:
+    """Parse a TOML case file without validating it (flags may still be merged in)."""
     p = Path(path)
     if not p.is_file():
         raise CaseFileError(f"case file {p} does not exist (give a .toml file; see docs/case-file.md).")
@@ -198,7 +203,7 @@ def load(path) -> Case:
         raise CaseFileError(f"{p} is not valid TOML: {exc}.") from None
     except UnicodeDecodeError:
         raise CaseFileError(f"{p} is not a UTF-8 text file.") from None
-    return validate(raw, source=str(p))
+    return raw
 
 
 def reference_markdown() -> str:

@@ -1,0 +1,119 @@
+"""Export a saved result for machining and CFD: one module per file format.
+
+    from moc.io.export import export, write, FORMATS
+    report = export(result, ["csv", "dxf", "stl"], "out", units="mm",
+                    options={"chord_tolerance": 0.005}, force=False)
+
+`export` checks every target before it writes any, writes each file to a
+temporary name beside its target and renames them all only when every
+format has succeeded, so a failed export leaves nothing behind and never
+touches what was there.  `write` is the same for one format and one path.
+Adding a format is adding a module with NAME, FILENAME, DESCRIPTION and
+write(path, ctx), and one line in `_MODULES`.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import importlib
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from moc.errors import ExportError
+from moc.io.atomic import atomic_path, check_writable
+from moc.io.export.context import ExportContext, ExportOptions
+
+#: format name -> module (public contract of `moc export --format`).
+_MODULES = {
+    "csv": "csv_wall",
+}
+
+FORMATS = tuple(_MODULES)
+
+
+def format_module(fmt):
+    """The module that writes format `fmt`, or ExportError listing the known ones."""
+    key = str(fmt).strip().lower()
+    if key not in _MODULES:
+        raise ExportError(f"unknown export format '{fmt}'; known formats: {', '.join(FORMATS)}.")
+    return importlib.import_module(f"moc.io.export.{_MODULES[key]}")
+
+
+def describe():
+    """(name, default file name, one-line description) for every format."""
+    out = []
+    for name in FORMATS:
+        mod = format_module(name)
+        out.append((name, mod.FILENAME, mod.DESCRIPTION))
+    return out
+
+
+def parse_formats(formats):
+    """Accept 'csv,dxf' or ['csv', 'dxf']; return the validated list without repeats."""
+    if isinstance(formats, str):
+        formats = formats.split(",")
+    names = []
+    for f in formats:
+        f = str(f).strip().lower()
+        if not f:
+            continue
+        format_module(f)
+        if f not in names:
+            names.append(f)
+    if not names:
+        raise ExportError(f"no export format given; choose from {', '.join(FORMATS)}.")
+    return names
+
+
+@dataclass
+class ExportReport:
+    """What an export wrote: files[(format, path)] and the notes to show the user."""
+
+    unit: str
+    files: list = field(default_factory=list)
+    notes: list = field(default_factory=list)
+
+
+def export(result, formats, out_dir, units=None, options=None, force=False):
+    """Write the requested formats of `result` into `out_dir`, all or nothing.
+
+    formats: list or comma-separated names from FORMATS.  units: a length unit
+    (default: the unit of the saved throat size, else mm).  options: a dict
+    of ExportOptions fields (or an ExportOptions).  force: overwrite existing
+    files.  Returns an ExportReport.
+    """
+    names = parse_formats(formats)
+    ctx = ExportContext(result, units, options)
+    out_dir = Path(out_dir)
+    if out_dir.exists() and not out_dir.is_dir():
+        raise ExportError(f"{out_dir} exists and is not a directory; give a directory for the exported files.")
+    mods = [format_module(n) for n in names]
+    for n, mod in zip(names, mods):
+        check = getattr(mod, "check", None)
+        if check:
+            check(ctx)
+    targets = [out_dir / mod.FILENAME for mod in mods]
+    check_writable(targets, force)
+    report = ExportReport(unit=ctx.unit)
+    with contextlib.ExitStack() as stack:
+        for name, mod, target in zip(names, mods, targets):
+            tmp = stack.enter_context(atomic_path(target, force=force))
+            mod.write(tmp, ctx)
+            report.files.append((name, target))
+    report.notes = list(ctx.notes)
+    return report
+
+
+def write(fmt, path, result, options=None, units=None, force=False):
+    """Write one format of `result` to `path` atomically; returns the ExportReport."""
+    mod = format_module(fmt)
+    ctx = ExportContext(result, units, options)
+    check = getattr(mod, "check", None)
+    if check:
+        check(ctx)
+    with atomic_path(path, force=force) as tmp:
+        mod.write(tmp, ctx)
+    return ExportReport(unit=ctx.unit, files=[(fmt, Path(path))], notes=list(ctx.notes))
+
+
+__all__ = ["FORMATS", "ExportOptions", "ExportReport", "describe", "export", "format_module", "parse_formats", "write"]

@@ -26,6 +26,8 @@ from moc.io.export.context import ExportContext, ExportOptions
 #: format name -> module (public contract of `moc export --format`).
 _MODULES = {
     "csv": "csv_wall",
+    "dxf": "dxf_wall",
+    "stl": "stl_wall",
 }
 
 FORMATS = tuple(_MODULES)

@@ -310,10 +310,13 @@ def plot_wall(result, ax=None):
     if not real:
         notes.append("lengths in throat units (no throat size given)")
     if notes:
-        ax.text(0.99, 0.03, "\n".join(notes), transform=ax.transAxes, ha="right", va="bottom", fontsize=8.5,
+        ax.text(0.01, 0.80, "\n".join(notes), transform=ax.transAxes, ha="left", va="top", fontsize=8.5,
                 bbox=dict(boxstyle="round,pad=0.3", facecolor="white", edgecolor="#bbbbbb"))
-    ax.set_ylim(ylen * 1.6, max(Y.max(), 1e-12) * 1.15)
     _finish_xy(ax, result, _title(result, "Wall contour"))
+    ax.set_aspect("equal", adjustable="box")
+    pad = 0.04 * span
+    ax.set_xlim(min(X.min(), 0.0) - pad, X.max() + pad)
+    ax.set_ylim(ylen * 1.6, max(Y.max(), 1e-12) * 1.15)
     ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
     return fig
 

@@ -8,8 +8,8 @@
 temporary name beside its target and renames them all only when every
 format has succeeded, so a failed export leaves nothing behind and never
 touches what was there.  `write` is the same for one format and one path.
-Adding a format is adding a module with NAME, FILENAME, DESCRIPTION and
-write(path, ctx), and one line in `_MODULES`.
+Adding a format is adding a module with write(path, ctx) (and optionally
+check(ctx), run before anything is written) and one entry in `TABLE`.
 """
 
 from __future__ import annotations
@@ -21,33 +21,43 @@ from pathlib import Path
 
 from moc.errors import ExportError
 from moc.io.atomic import atomic_path, check_writable
-from moc.io.export.context import ExportContext, ExportOptions
 
-#: format name -> module (public contract of `moc export --format`).
-_MODULES = {
-    "csv": "csv_wall",
-    "dxf": "dxf_wall",
-    "stl": "stl_wall",
+#: format name -> (module, file name, description): the public contract of `moc export --format`.
+TABLE = {
+    "csv": ("csv_wall", "wall.csv",
+             "wall points for machining (inlet face to exit) with slope and curvature, chord-error spaced"),
+    "dxf": ("dxf_wall", "wall.dxf",
+             "wall as splines (one per smooth part) and a polyline, axis on its own layer (DXF R2000, units in $INSUNITS)"),
+    "stl": ("stl_wall", "wall.stl",
+             "closed cavity of the wetted wall (revolved or extruded) with end caps, binary STL"),
+    "vtu": ("vtu", "flowfield.vtu",
+             "characteristic net with Mach, p/p0, T/T0, rho/rho0, flow angle, velocity/a0, total pressure (VTK XML)"),
+    "xdmf": ("xdmf", "flowfield.xdmf",
+             "characteristic net with the same flow data (XDMF 3, data inline as XML, one file)"),
+    "msh": ("msh", "flowfield.msh",
+             "characteristic net with the same flow data as Gmsh node data (MSH 2.2 binary)"),
+    "sector-vtu": ("sector", "flowfield_sector.vtu",
+             "axisymmetric net revolved into a 3-D sector with the same flow data, for viewing (VTK XML)"),
+    "su2": ("su2", "domain.su2",
+             "structured CFD domain mesh with named markers inlet/outlet/wall/axis|symmetry[/farfield] (SU2)"),
+    "mesh-msh": ("mesh_msh", "domain.msh",
+             "the same CFD domain mesh with named physical groups (Gmsh MSH 2.2 binary)"),
 }
 
-FORMATS = tuple(_MODULES)
+FORMATS = tuple(TABLE)
 
 
 def format_module(fmt):
     """The module that writes format `fmt`, or ExportError listing the known ones."""
     key = str(fmt).strip().lower()
-    if key not in _MODULES:
+    if key not in TABLE:
         raise ExportError(f"unknown export format '{fmt}'; known formats: {', '.join(FORMATS)}.")
-    return importlib.import_module(f"moc.io.export.{_MODULES[key]}")
+    return importlib.import_module(f"moc.io.export.{TABLE[key][0]}")
 
 
 def describe():
-    """(name, default file name, one-line description) for every format."""
-    out = []
-    for name in FORMATS:
-        mod = format_module(name)
-        out.append((name, mod.FILENAME, mod.DESCRIPTION))
-    return out
+    """(name, default file name, one-line description) for every format (imports nothing heavy)."""
+    return [(name, TABLE[name][1], TABLE[name][2]) for name in FORMATS]
 
 
 def parse_formats(formats):
@@ -69,11 +79,20 @@ def parse_formats(formats):
 
 @dataclass
 class ExportReport:
-    """What an export wrote: files[(format, path)] and the notes to show the user."""
+    """What an export wrote: files[(format, path)] and the notes to show the user.
+
+    Iterating over a report yields the written paths, so `paths += export(...)` works.
+    """
 
     unit: str
     files: list = field(default_factory=list)
     notes: list = field(default_factory=list)
+
+    def __iter__(self):
+        return iter([p for _, p in self.files])
+
+    def __len__(self):
+        return len(self.files)
 
 
 def export(result, formats, out_dir, units=None, options=None, force=False):
@@ -84,6 +103,8 @@ def export(result, formats, out_dir, units=None, options=None, force=False):
     of ExportOptions fields (or an ExportOptions).  force: overwrite existing
     files.  Returns an ExportReport.
     """
+    from moc.io.export.context import ExportContext
+
     names = parse_formats(formats)
     ctx = ExportContext(result, units, options)
     out_dir = Path(out_dir)
@@ -94,7 +115,7 @@ def export(result, formats, out_dir, units=None, options=None, force=False):
         check = getattr(mod, "check", None)
         if check:
             check(ctx)
-    targets = [out_dir / mod.FILENAME for mod in mods]
+    targets = [out_dir / TABLE[n][1] for n in names]
     check_writable(targets, force)
     report = ExportReport(unit=ctx.unit)
     with contextlib.ExitStack() as stack:
@@ -108,6 +129,8 @@ def export(result, formats, out_dir, units=None, options=None, force=False):
 
 def write(fmt, path, result, options=None, units=None, force=False):
     """Write one format of `result` to `path` atomically; returns the ExportReport."""
+    from moc.io.export.context import ExportContext
+
     mod = format_module(fmt)
     ctx = ExportContext(result, units, options)
     check = getattr(mod, "check", None)
@@ -116,6 +139,14 @@ def write(fmt, path, result, options=None, units=None, force=False):
     with atomic_path(path, force=force) as tmp:
         mod.write(tmp, ctx)
     return ExportReport(unit=ctx.unit, files=[(fmt, Path(path))], notes=list(ctx.notes))
+
+
+def __getattr__(name):
+    if name == "ExportOptions":
+        from moc.io.export.context import ExportOptions
+
+        return ExportOptions
+    raise AttributeError(name)
 
 
 __all__ = ["FORMATS", "ExportOptions", "ExportReport", "describe", "export", "format_module", "parse_formats", "write"]

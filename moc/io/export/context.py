@@ -188,3 +188,23 @@ class ExportContext:
         from moc.io.export.contour import sample
 
         return sample(self.contour, self.chord_tolerance)
+
+    @cached_property
+    def domain(self):
+        """The structured CFD domain mesh (moc.io.domain_mesh) in the output unit, with its quality noted."""
+        from moc.io import domain_mesh
+
+        o = self.options
+        first = 1e-3 if o.first_cell is None else self.to_throat(o.first_cell)
+        mesh = domain_mesh.build(
+            self.contour, o.axial_cells, o.radial_cells, first, axisymmetric=self.axisymmetric,
+            plume_length=self.to_throat(o.plume_length), plume_height=self.to_throat(o.plume_height),
+            plume_axial_cells=o.plume_axial_cells, plume_radial_cells=o.plume_radial_cells,
+        )
+        mesh.points = mesh.points * self.scale
+        q = mesh.quality()
+        self.note(
+            f"domain mesh: {q['cells']} quads, {q['points']} points; largest skew {q['max_skew']:.3f}, "
+            f"largest aspect ratio {q['max_aspect']:.4g}, smallest cell area {q['min_area']:.4g} {self.unit}^2"
+        )
+        return mesh

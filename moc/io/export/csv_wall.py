@@ -11,10 +11,6 @@ import io
 
 import numpy as np
 
-NAME = "csv"
-FILENAME = "wall.csv"
-DESCRIPTION = "wall points for machining (inlet face to exit) with slope and curvature, chord-error spaced"
-
 
 def write(path, ctx):
     p = ctx.profile

@@ -15,9 +15,6 @@ import io
 
 import numpy as np
 
-NAME = "dxf"
-FILENAME = "wall.dxf"
-DESCRIPTION = "wall as splines (one per smooth part) and a polyline, axis on its own layer (DXF R2000, units in $INSUNITS)"
 
 INSUNITS = {"in": 1, "ft": 2, "mm": 4, "cm": 5, "m": 6, "um": 13}
 

@@ -12,9 +12,6 @@ header, uint32 count, 50 bytes per facet) as in the STL specification
 
 import numpy as np
 
-NAME = "stl"
-FILENAME = "wall.stl"
-DESCRIPTION = "closed cavity of the wetted wall (revolved or extruded) with end caps, binary STL"
 
 _FACET = np.dtype([("normal", "<f4", 3), ("v", "<f4", (3, 3)), ("attr", "<u2")])
 

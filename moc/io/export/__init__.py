@@ -118,11 +118,14 @@ def export(result, formats, out_dir, units=None, options=None, force=False):
     targets = [out_dir / TABLE[n][1] for n in names]
     check_writable(targets, force)
     report = ExportReport(unit=ctx.unit)
-    with contextlib.ExitStack() as stack:
-        for name, mod, target in zip(names, mods, targets):
-            tmp = stack.enter_context(atomic_path(target, force=force))
-            mod.write(tmp, ctx)
-            report.files.append((name, target))
+    try:
+        with contextlib.ExitStack() as stack:
+            for name, mod, target in zip(names, mods, targets):
+                tmp = stack.enter_context(atomic_path(target, force=force))
+                mod.write(tmp, ctx)
+                report.files.append((name, target))
+    except OSError as exc:
+        raise ExportError(f"could not write {target}: {exc}; no exported file was written or changed.") from exc
     report.notes = list(ctx.notes)
     return report
 
@@ -136,8 +139,11 @@ def write(fmt, path, result, options=None, units=None, force=False):
     check = getattr(mod, "check", None)
     if check:
         check(ctx)
-    with atomic_path(path, force=force) as tmp:
-        mod.write(tmp, ctx)
+    try:
+        with atomic_path(path, force=force) as tmp:
+            mod.write(tmp, ctx)
+    except OSError as exc:
+        raise ExportError(f"could not write {path}: {exc}; the file was not written or changed.") from exc
     return ExportReport(unit=ctx.unit, files=[(fmt, Path(path))], notes=list(ctx.notes))
 
 

@@ -133,10 +133,14 @@ def _require_wall(result):
 
 
 def _subsample(lines, limit):
+    """Every k-th line (a uniform stride, so no lone gaps), always with the first and last."""
     if len(lines) <= limit:
         return lines
-    keep = np.unique(np.round(np.linspace(0, len(lines) - 1, limit)).astype(int))
-    return [lines[k] for k in keep]
+    k = -(-len(lines) // limit)
+    keep = list(range(0, len(lines), k))
+    if keep[-1] != len(lines) - 1:
+        keep.append(len(lines) - 1)
+    return [lines[i] for i in keep]
 
 
 def _draw_wall(ax, result, scale, label="wall"):
@@ -248,6 +252,7 @@ def plot_mach_field(result, ax=None, levels=24, show_net=True):
         hi = lo + 1e-6
     cs = ax.tricontourf(tri, m, levels=np.linspace(lo, hi, levels + 1), cmap=CMAP, zorder=1)
     scale, _, _ = length_scale(result)
+    _fill_uniform_region(ax, result, scale, cs)
     if show_net:
         pts = np.column_stack([net.x, net.y]) * scale
         for fam, key in (("+", "cplus"), ("-", "cminus")):
@@ -263,6 +268,31 @@ def plot_mach_field(result, ax=None, levels=24, show_net=True):
     ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
     _finish_xy(ax, result, _title(result, "Mach-number field"))
     return fig
+
+
+def _fill_uniform_region(ax, result, scale, mappable):
+    """Shade the uniform region downstream of the exit characteristic in the exit Mach colour.
+
+    A designed nozzle's net ends on the C+ characteristic that leaves the axis
+    where M reaches the exit value; between it, the axis and the exit plane the
+    flow is uniform and the net has no points.  Nothing is drawn when the exit
+    profile is a plane (x constant) or is not uniform.
+    """
+    ex, ey, em = _arr(result.exit, "x"), _arr(result.exit, "y"), _arr(result.exit, "mach")
+    if ex.size < 2 or ey.size != ex.size or em.size != ex.size:
+        return
+    x_end = max(float(ex.max()), float(_arr(result.wall, "x").max()) if _arr(result.wall, "x").size else -np.inf)
+    o = np.argsort(ey)
+    ex, ey = ex[o], ey[o]
+    if x_end - ex[0] < 1e-6 * max(1.0, abs(x_end)) or np.ptp(em) > 1e-3 * max(1.0, float(em.mean())):
+        return
+    poly = np.vstack([np.column_stack([ex, ey]), [[x_end, 0.0], [ex[0], 0.0]]]) * scale
+    colour = mappable.cmap(mappable.norm(float(em.mean())))
+    ax.fill(poly[:, 0], poly[:, 1], color=colour, linewidth=0, zorder=1)
+    cx = (ex[0] + 2.0 * x_end) / 3.0 * scale
+    cy = ey[-1] / 3.0 * scale
+    ax.text(cx, cy, f"uniform, M = {float(em.mean()):.4g}", ha="center", va="center", fontsize=8.5, color=INK,
+            bbox=dict(boxstyle="round,pad=0.2", facecolor="white", edgecolor="none", alpha=0.75), zorder=3)
 
 
 def _dimension(ax, p0, p1, text, offset=(0, 0), color=INK, rotation=0):
@@ -337,6 +367,14 @@ def _gamma(result):
     return float(g)
 
 
+def _sparse_log_label(v, _pos=None):
+    """Label minor log ticks only at 2 and 5 times a power of ten."""
+    if not v > 0:
+        return ""
+    mant = v / 10.0 ** np.floor(np.log10(v))
+    return f"{v:.3g}" if np.isclose(mant, 2.0) or np.isclose(mant, 5.0) else ""
+
+
 def plot_distributions(result, fig=None):
     """Wall and centreline Mach number (top) and pressure p/p0 (bottom, log scale) against x."""
     if fig is None:
@@ -377,9 +415,8 @@ def plot_distributions(result, fig=None):
                 a.axvspan(sx.min() * scale, sx.max() * scale, color=SHOCK, alpha=0.12, linewidth=0)
     ax1.set_ylabel("Mach number M")
     ax2.set_ylabel("static pressure p / p0 (log scale)")
-    plain = FuncFormatter(lambda v, _: f"{v:.3g}")
-    ax2.yaxis.set_major_formatter(plain)
-    ax2.yaxis.set_minor_formatter(plain)
+    ax2.yaxis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:.3g}"))
+    ax2.yaxis.set_minor_formatter(FuncFormatter(_sparse_log_label))
     ax2.set_xlabel(_len_label(result, "x"))
     for a in (ax1, ax2):
         a.grid(True, color="#d9d9d9", linewidth=0.5)

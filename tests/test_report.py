@@ -223,9 +223,12 @@ def _design_api():
 
 @pytest.mark.skipif(not _design_api(), reason="the minimum-length designer is not in this tree yet")
 def test_report_of_a_real_design_recomputes_the_coarse_net(tmp_path):
-    # Source: VALIDATION.md / NACA Report 1135: exit area ratio of a shock-free
-    # uniform-exit nozzle equals A/A*(Me); planar Me = 2 gives 27/16.  The Richardson
-    # estimate of a second-order net must be smaller than the coarse-fine change.
+    # Source: VALIDATION.md / NACA Report 1135: the exit area ratio of a shock-free,
+    # uniform-exit nozzle equals A/A*(Me), and the mass-flow error vanishes as the
+    # net is refined; NUMERICS.md: the net is second order, so the observed order
+    # from n = 12 -> 24 lies near 2.  Richardson (Roache 1994, from memory): the
+    # extrapolated length from (24, 12) is closer to the n = 48 length than the n = 24 one.
+    from moc.design import design_minimum_length
     from moc.io.case import validate
     from moc.io.outputs import write_outputs
     from moc.pipeline import run_case
@@ -240,10 +243,13 @@ def test_report_of_a_real_design_recomputes_the_coarse_net(tmp_path):
     assert c is not None and c.summary["characteristics"] == 12
     st = refinement_study(r, c)
     rows = {q["quantity"]: q for q in st["rows"]}
-    ar = rows["area_ratio"]
-    assert abs(ar["fine"] - 27 / 16) < abs(ar["coarse"] - 27 / 16) + 1e-12
-    assert abs(ar["error_estimate"]) < abs(ar["difference"])
+    assert 1.6 < rows["mass_flow_error"]["observed_order"] < 2.5
+    assert st["observed_order_quantity"] in ("area_ratio", "area_ratio_streamline", "mass_flow_error")
+    fine48 = design_minimum_length(2.0, 1.4, "planar", 48).summary["length"]
+    L = rows["length"]
+    assert abs(L["extrapolated"] - fine48) < 0.5 * abs(L["fine"] - fine48)
     text = check_html(build_report(r, result_dir=d, coarse=c, dpi=20))
     for key, v in _flat(r.summary):
         assert _text_of(v) in text, (key, v)
-    assert math.isfinite(st.get("observed_order", 0.0))
+    assert "Observed order of accuracy" in text
+    assert math.isfinite(st["observed_order"])

@@ -15,9 +15,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from moc.errors import CaseFileError
-
-#: Length units accepted at the I/O edge, in metres per unit.
-LENGTH_UNITS = {"mm": 1e-3, "cm": 1e-2, "m": 1.0, "in": 0.0254, "ft": 0.3048}
+from moc.io.units import METRES_PER_UNIT as LENGTH_UNITS
 PRESSURE_UNITS = {"Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "bar": 1e5, "atm": 101325.0, "psi": 6894.757293168}
 
 

@@ -127,6 +127,8 @@ def test_scale_from_saved_throat_and_missing_throat_warns():
     ({"segments": 2}, "segments"),
     ({"radial_cells": 3.5}, "whole number"),
     ({"no_such": 1}, "unknown export option"),
+    ({"sector_angle": 360.0, "sector_segments": 4}, "45 degrees"),
+    ({"sector_angle": 400.0}, "at most 360"),
 ])
 def test_bad_options_are_refused(opts, match):
     from moc.io.export import ExportOptions

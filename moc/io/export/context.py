@@ -89,6 +89,12 @@ class ExportOptions:
         for name, lo in (("segments", 3), ("sector_segments", 1), ("axial_cells", 2), ("radial_cells", 2),
                          ("plume_axial_cells", 1), ("plume_radial_cells", 1)):
             setattr(self, name, _count(name, getattr(self, name), lo))
+        if self.sector_angle / self.sector_segments > 45.0:
+            raise ExportError(
+                f"each of the {self.sector_segments} sector segments would span "
+                f"{self.sector_angle / self.sector_segments:g} degrees; use enough --sector-segments "
+                "for at most 45 degrees each."
+            )
 
 
 def _label(name):

@@ -17,9 +17,18 @@ from moc.errors import ExportError
 from moc.io.export.field import mesh_2d, xml_caution
 
 
+#: largest number of points the revolved sector may have (about 1.5 GB of VTU).
+MAX_POINTS = 20_000_000
+
+
 def check(ctx):
     if not ctx.axisymmetric:
         raise ExportError("the sector-vtu format revolves an axisymmetric result; this result is planar (use vtu).")
+    n = ctx.result.net.size * (ctx.options.sector_segments + 1)
+    if n > MAX_POINTS:
+        raise ExportError(
+            f"the revolved sector would have about {n:,} points (limit {MAX_POINTS:,}); use fewer --sector-segments."
+        )
 
 
 def _tet_volume(a, b, c, d):
@@ -27,10 +36,15 @@ def _tet_volume(a, b, c, d):
 
 
 def _orient(kind, cells, pts):
-    """Reorder cells whose VTK orientation is negative."""
+    """Reorder cells whose VTK orientation is negative.
+
+    cells: (n, segments, nodes), one row per 2-D cell; a cell's orientation is
+    the same in every segment (each spans under 180 degrees), so it is checked
+    on the first segment only.
+    """
     if not len(cells):
-        return cells
-    p = pts[cells]
+        return cells.reshape(-1, cells.shape[-1])
+    p = pts[cells[:, 0]]
     if kind == "hexahedron":
         n = np.cross(p[:, 2] - p[:, 0], p[:, 3] - p[:, 1])
         sgn = np.einsum("ij,ij->i", n, p[:, 4:].mean(1) - p[:, :4].mean(1))
@@ -46,10 +60,9 @@ def _orient(kind, cells, pts):
     else:  # tetra
         sgn = _tet_volume(p[:, 0], p[:, 1], p[:, 2], p[:, 3])
         flip = [0, 2, 1, 3]
-    out = cells.copy()
     bad = sgn < 0
-    out[bad] = cells[bad][:, flip]
-    return out
+    cells[bad] = cells[bad][..., flip]
+    return cells.reshape(-1, cells.shape[-1])
 
 
 def revolve(mesh, angle_deg, segments):
@@ -79,7 +92,7 @@ def revolve(mesh, angle_deg, segments):
             touch = on_axis[c].any(axis=1)
             q = c[~touch]
             blocks["hexahedron"].append(np.concatenate(
-                [gid[k0][:, q].transpose(1, 0, 2), gid[k1][:, q].transpose(1, 0, 2)], axis=2).reshape(-1, 8))
+                [gid[k0][:, q].transpose(1, 0, 2), gid[k1][:, q].transpose(1, 0, 2)], axis=2))
             t = c[touch]
             tris.append(np.concatenate([t[:, [0, 1, 2]], t[:, [0, 2, 3]]]))
         else:
@@ -102,7 +115,7 @@ def revolve(mesh, angle_deg, segments):
             cells = np.stack([a0[..., 1], a0[..., 2], a1[..., 2], a1[..., 1], a0[..., 0]], axis=2)
         else:
             cells = np.stack([a0[..., 0], a0[..., 1], a0[..., 2], a1[..., 2]], axis=2)
-        blocks[kind].append(cells.reshape(-1, cells.shape[-1]))
+        blocks[kind].append(cells)
     out = []
     for kind, parts in blocks.items():
         parts = [p for p in parts if len(p)]

@@ -1,0 +1,344 @@
+"""Minimum-length nozzle: sharp-corner throat, centered expansion fan, uniform exit.
+
+The throat is a straight sonic line at x = 0 ending at a sharp corner
+(0, 1).  A centered Prandtl-Meyer fan of C- rays leaves the corner (on each
+ray nu = theta, the corner being a point where the C+ has zero length) and
+reflects from the axis (the kernel).  The fan's last ray, with the corner
+angle theta_c, reaches the axis at E where the Mach number must equal Me;
+downstream of the C+ from E the flow is uniform.  The region between the last
+ray and the exit C+ is solved as a Goursat problem from those two
+characteristics, and the wall is the streamline carrying the throat mass flow
+(mass balance on each C+; checked against streamline tracing).
+
+Planar: theta_c = nu(Me)/2 exactly (the turning region is a simple wave;
+Anderson, Modern Compressible Flow, nozzle design by the method of
+characteristics, from memory).  Axisymmetric: theta_c is found by root
+finding so that M on the axis equals Me where the kernel ends.
+
+Sonic start: the fan's rays are clustered toward the sonic end,
+theta_j = theta_c h(t_j), h(t) = p t^p - (p-1) t^(p+1), t_j = (j+1)/n, so the
+first ray starts from a small turning angle theta_0 = theta_c h(1/n) > 0 and
+the sonic line itself is not a computed characteristic (small initial
+turning angle at the corner, as in Zucrow and Hoffman, Gas Dynamics vol. 2,
+1977, from memory).
+"""
+
+import math
+
+import numpy as np
+
+from moc.errors import ComputationError, InputError, MachError
+from moc.flow import area_ratio, nu_max, pressure_ratio, prandtl_meyer
+from moc.flow._checks import check_gamma
+from moc.net._pm import mu_of_nu
+from moc.net.assemble import grid_cells, net_arrays, zipper
+from moc.net.grid import Grid
+from moc.net.march import goursat, march_fan
+from moc.net.points import Points
+from moc.net.wall import cumulative_flux, mass_balance_wall, throat_flux, trace_streamline
+from moc.result import Net, Result
+
+#: exponent p of the fan clustering h(t) = p t^p - (p-1) t^(p+1)
+CLUSTER_POWER = 6
+GEOMETRIES = {"planar": 0, "axisymmetric": 1}
+
+
+def fan_angles(theta_c, n, power=CLUSTER_POWER):
+    """Flow angles of the n fan rays: theta_c h((j+1)/n), j = 0..n-1 (last = theta_c)."""
+    t = np.arange(1, n + 1) / n
+    h = power * t**power - (power - 1) * t ** (power + 1)
+    h[-1] = 1.0
+    return theta_c * h
+
+
+def _check_inputs(exit_mach, gamma, geometry, n):
+    g = check_gamma(gamma)
+    if geometry not in GEOMETRIES:
+        raise InputError(f"geometry must be 'planar' or 'axisymmetric', got {geometry!r}.")
+    try:
+        me = float(exit_mach)
+    except (TypeError, ValueError):
+        raise MachError(f"exit Mach number must be a number above 1, got {exit_mach!r}.") from None
+    if not math.isfinite(me) or me <= 1.0:
+        raise MachError(f"exit Mach number must be a finite number above 1 for a supersonic nozzle, got {exit_mach!r}.")
+    if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or n < 3:
+        raise InputError(f"the number of characteristics must be a whole number of at least 3, got {n!r}.")
+    nue = prandtl_meyer(me, g)
+    if 0.5 * nue >= 0.5 * math.pi * 0.999:
+        raise MachError(
+            f"exit Mach number {me:g} needs a corner turning nu(Me)/2 = {math.degrees(nue / 2):.2f} deg, "
+            "but the wall at a sharp corner must turn by less than 90 deg; lower the exit Mach number "
+            "(or raise gamma)."
+        )
+    return me, g, GEOMETRIES[geometry], int(n), nue
+
+
+def _kernel(theta_c, n, gamma, delta, power):
+    th = fan_angles(theta_c, n, power)
+    return march_fan(0.0, 1.0, th, th, gamma, delta), th
+
+
+def _axis_residual(theta_c, n, gamma, delta, power, nue):
+    (grid, _, axn), _ = _kernel(theta_c, n, gamma, delta, power)
+    return float(axn[-1] - nue)
+
+
+def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-11):
+    """Corner angle theta_c (radians) for which the axis reaches nu(Me) at the kernel end.
+
+    Planar: nu(Me)/2.  Axisymmetric: bracketed root (Brent) on coarse nets,
+    extrapolated to n, then secant iterations on the net of n characteristics.
+    """
+    nue = prandtl_meyer(exit_mach, gamma)
+    if not delta:
+        return 0.5 * nue
+    from scipy.optimize import brentq
+
+    def coarse(m):
+        def f(t):
+            try:
+                return _axis_residual(t, m, gamma, delta, power, nue)
+            except ComputationError:  # far too strong a fan: the net breaks down
+                return np.inf
+        # bracket: the axisymmetric corner angle lies below the planar nu(Me)/2
+        lo, flo = 0.0, -nue
+        for frac in (0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 1.0):
+            t = frac * 0.5 * nue
+            ft = f(t)
+            if ft > 0.0:
+                break
+            lo, flo = t, ft
+        else:
+            raise ComputationError(
+                "no corner angle up to nu(Me)/2 brings the axis to the exit Mach number; "
+                "the axisymmetric kernel could not be solved."
+            )
+        hi = t
+        if not np.isfinite(ft):  # shrink the upper end until the net can be marched
+            for _ in range(60):
+                mid = 0.5 * (lo + hi)
+                fm = f(mid)
+                if fm > 0.0:
+                    hi = mid
+                    if np.isfinite(fm):
+                        break
+                else:
+                    lo = mid
+        if lo == 0.0:
+            lo = 1e-6 * hi
+        return brentq(f, lo, hi, xtol=1e-13, rtol=1e-13)
+
+    levels = [m for m in (12, 24) if m < n]
+    if not levels:
+        return coarse(n)
+    th = [coarse(m) for m in levels]
+    if len(th) == 2:
+        c = (th[0] - th[1]) / (1.0 / levels[0] ** 2 - 1.0 / levels[1] ** 2)
+        guess = th[1] - c * (1.0 / levels[1] ** 2 - 1.0 / n**2)
+    else:
+        guess = th[0]
+    h = 1e-7 * guess
+    f0 = _axis_residual(guess, n, gamma, delta, power, nue)
+    t0 = guess
+    if abs(f0) <= tol:
+        return t0
+    # slope from the coarsest level (smooth in n)
+    m0 = levels[0]
+    slope = (_axis_residual(th[0] + h, m0, gamma, delta, power, nue)
+             - _axis_residual(th[0] - h, m0, gamma, delta, power, nue)) / (2 * h)
+    for _ in range(12):
+        t1 = t0 - f0 / slope
+        f1 = _axis_residual(t1, n, gamma, delta, power, nue)
+        if abs(f1) <= tol or t1 == t0:
+            return t1
+        slope = (f1 - f0) / (t1 - t0)
+        t0, f0 = t1, f1
+    return t0
+
+
+def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
+    """Design a minimum-length nozzle for exit Mach number `exit_mach`.
+
+    n: number of characteristics (fan rays).  Returns a `moc.result.Result`
+    (kind "design"); lengths in throat half-heights (planar) or radii.
+    """
+    me, g, delta, n, nue = _check_inputs(exit_mach, gamma, geometry, n)
+    power = CLUSTER_POWER
+    theta_c = corner_angle(me, g, delta, n, power)
+    (kgrid, axis_x, axis_nu), fan = _kernel(theta_c, n, g, delta, power)
+    nu_e = axis_nu[-1]  # = nue to the root tolerance (exactly for planar)
+    mu_e = float(mu_of_nu(np.array([nu_e]), g)[0])
+
+    # the uniform exit C+ from E, a little beyond the exact lip height
+    y_exact = area_ratio(me, g) ** (1.0 / (1 + delta))
+    m = n
+    ye = y_exact * (1.0 + 3.0 / m) * np.arange(m + 1) / m
+    xE = kgrid.x[n - 1, n - 1]
+    cplus = Points(xE + ye / math.tan(mu_e), ye, np.zeros(m + 1), np.full(m + 1, nu_e), np.full(m + 1, mu_e))
+    cminus = kgrid.cminus(n - 1)  # ray n-1 from i = 0 (by the corner) to E (i = n-1)
+    ggrid = goursat(cminus, cplus, g, delta)
+
+    # one grid [i, j]: kernel columns 0..n-1, turning-region columns n..n+m-1
+    full = Grid.empty(n, n + m)
+    for k in ("x", "y", "theta", "nu", "mu"):
+        A = getattr(full, k)
+        A[:, :n] = getattr(kgrid, k)
+        A[:, n:] = getattr(ggrid, k)[:, 1:]
+    F0 = throat_flux(delta)
+    wall = mass_balance_wall(full, g, delta, F0)
+
+    # corner (start of the wall): downstream side of the fan
+    corner = Points(np.zeros(n), np.ones(n), fan, fan, mu_of_nu(fan, g))
+    wx = np.concatenate([[0.0], wall["x"]])
+    wy = np.concatenate([[1.0], wall["y"]])
+    wth = np.concatenate([[theta_c], wall["theta"]])
+    wnu = np.concatenate([[fan[-1]], wall["nu"]])
+    wmu = np.concatenate([[corner.mu[-1]], wall["mu"]])
+    wm = 1.0 / np.sin(wmu)
+
+    # streamline check
+    sx, sy, sth = trace_streamline(full, 0.0, 1.0, theta_c)
+    stream_dy = float(np.max(np.abs(sy - wy)))
+
+    # mass balance across the C- rays of the kernel (corner to axis) and across
+    # the exit C+ to (n-1, j) then the C- j up to the wall, for the check
+    mass_err = _mass_check(full, kgrid, corner, wall, g, delta, n, F0)
+
+    # exit characteristic: points of the exit C+ inside the wall, then the lip
+    inside = np.isfinite(full.x) & (np.arange(n + m)[None, :] <= wall["col"][:, None])
+    ex_cols = np.flatnonzero(inside[n - 1])
+    ex_cols = ex_cols[ex_cols >= n - 1]
+    exit_ = {
+        "x": np.append(full.x[n - 1, ex_cols], wx[-1]),
+        "y": np.append(full.y[n - 1, ex_cols], wy[-1]),
+        "mach": np.append(full.mach[n - 1, ex_cols], wm[-1]),
+        "theta": np.append(full.theta[n - 1, ex_cols], wth[-1]),
+    }
+    axis_ = {
+        "x": np.concatenate([[0.0], axis_x, [wx[-1]]]),
+        "mach": np.concatenate([[1.0], 1.0 / np.sin(mu_of_nu(axis_nu, g)), [1.0 / math.sin(mu_e)]]),
+    }
+
+    net = _build_net(full, inside, corner, (wx, wy, wth, wm), n, m)
+    ar = float(wy[-1] ** (1 + delta))
+    ar_s = float(sy[-1] ** (1 + delta))
+    ar_i = float(area_ratio(me, g))
+    dev = float(np.max(np.abs(exit_["mach"] - me)))
+    summary = {
+        "geometry": "axisymmetric" if delta else "planar",
+        "method": "minimum_length",
+        "gamma": g,
+        "exit_mach": float(np.mean(exit_["mach"])),
+        "exit_mach_max_dev": dev,
+        "area_ratio": ar,
+        "area_ratio_isentropic": ar_i,
+        "area_ratio_error": (ar - ar_i) / ar_i,
+        "area_ratio_streamline": ar_s,
+        "area_ratio_streamline_error": (ar_s - ar_i) / ar_i,
+        "exit_height": float(wy[-1]),
+        "length": float(wx[-1]),
+        "kernel_length": float(xE),
+        "max_wall_angle_deg": float(np.degrees(np.max(wth))),
+        "corner_angle_deg": float(np.degrees(theta_c)),
+        "initial_turning_angle_deg": float(np.degrees(fan[0])),
+        "fan_clustering_power": power,
+        "characteristics": n,
+        "points": int(net.size),
+        "wall_points": int(wx.size),
+        "mass_flow_error": mass_err,
+        "wall_streamline_difference": stream_dy,
+    }
+    inputs = {"method": "minimum_length", "exit_mach": me, "gamma": g,
+              "geometry": summary["geometry"], "characteristics": n}
+    wall_ = {"x": wx, "y": wy, "theta": wth, "mach": wm, "p_p0": pressure_ratio(wm, g)}
+    return Result(kind="design", inputs=inputs, summary=summary, net=net, wall=wall_,
+                  axis=axis_, exit=exit_)
+
+
+def _mass_check(full, kgrid, corner, wall, gamma, delta, n, F0):
+    """Largest relative mismatch of the mass flux across characteristics and the throat flux."""
+    errs = []
+    # kernel C- rays: from the corner down to the axis
+    X = np.concatenate([np.zeros((1, n)), kgrid.x], axis=0).T  # rows = rays j, from the corner
+    Y = np.concatenate([np.ones((1, n)), kgrid.y], axis=0).T
+    MU = np.concatenate([corner.mu[None, :], kgrid.mu], axis=0).T
+    cum, _ = cumulative_flux(X, Y, MU, gamma, delta)
+    tot = np.nanmax(cum, axis=1)
+    errs.append(np.max(np.abs(tot / F0 - 1.0)))
+    # turning region: exit C+ from E to column j, then C- j upward to the wall
+    ncol = full.shape[1]
+    ex_cum, _ = cumulative_flux(full.x[n - 1:n, n - 1:], full.y[n - 1:n, n - 1:], full.mu[n - 1:n, n - 1:],
+                                gamma, delta)
+    cols = np.arange(n, ncol)
+    # C- j runs over rows i = n-1 (exit C+) up to i = 0; reverse to march upward
+    Xc, Yc, MUc = (getattr(full, k)[::-1, n:].T for k in ("x", "y", "mu"))
+    ccum, _ = cumulative_flux(Xc, Yc, MUc, gamma, delta)
+    total = ex_cum[0, 1:][:, None] + ccum  # rows: columns j; entries along C- j upward
+    # the C- j crosses the wall between the rows i with col_i < j <= ... use rows still inside
+    inside = (cols[:, None] <= wall["col"][::-1][None, :])
+    # take, for each C- j, the last point inside and the first outside; the flux at the wall
+    # is bracketed; compare by interpolation of the flux in the wall-crossing segment
+    last = np.where(inside.any(axis=1), inside.shape[1] - 1 - np.argmax(inside[:, ::-1], axis=1), -1)
+    ok = (last >= 0) & (last < inside.shape[1] - 1)
+    for jj in np.flatnonzero(ok):
+        k = last[jj]
+        # wall crossing between points k and k+1 of C- j: distance along the segment
+        i_in, i_out = n - 1 - k, n - 2 - k
+        xa, ya = full.x[i_in, cols[jj]], full.y[i_in, cols[jj]]
+        xb, yb = full.x[i_out, cols[jj]], full.y[i_out, cols[jj]]
+        # wall segment between wall points on C+ i_out and C+ i_in (wall["x"] index = row)
+        tau = _seg_cross(xa, ya, xb, yb, wall["x"][i_out], wall["y"][i_out], wall["x"][i_in], wall["y"][i_in])
+        if tau is None:
+            continue
+        fl = total[jj, k] + tau * (total[jj, k + 1] - total[jj, k])
+        errs.append(abs(fl / F0 - 1.0))
+    return float(max(errs))
+
+
+def _seg_cross(xa, ya, xb, yb, xc, yc, xd, yd):
+    """Fraction along AB where it crosses the line CD (None if parallel or outside [0, 1])."""
+    rx, ry = xb - xa, yb - ya
+    sx, sy = xd - xc, yd - yc
+    den = rx * sy - ry * sx
+    if den == 0.0:
+        return None
+    t = ((xc - xa) * sy - (yc - ya) * sx) / den
+    return t if -1e-9 <= t <= 1.0 + 1e-9 else None
+
+
+def _build_net(full, inside, corner, wallpts, n, m):
+    """Points inside the nozzle, wall points and the corner fan, with labels and cells."""
+    wx, wy, wth, wm = wallpts
+    ni, nj = full.shape
+    idx = -np.ones((ni, nj), dtype=np.int64)
+    ii, jj = np.nonzero(inside)
+    npg = ii.size
+    idx[ii, jj] = np.arange(npg)
+    # corner points (one per fan ray, C+ label -1), then wall points (C+ i, own C- label)
+    c0 = npg
+    w0 = c0 + n  # wall point on C+ i has number w0 + i; the corner wall point is c0 + n - 1
+    x = np.concatenate([full.x[ii, jj], corner.x, wx[1:]])
+    y = np.concatenate([full.y[ii, jj], corner.y, wy[1:]])
+    th = np.concatenate([full.theta[ii, jj], corner.theta, wth[1:]])
+    ma = np.concatenate([full.mach[ii, jj], 1.0 / np.sin(corner.mu), wm[1:]])
+    cp = np.concatenate([ii, -np.ones(n, dtype=np.int64), np.arange(n)])
+    cm = np.concatenate([jj, np.arange(n), nj + np.arange(n)])
+    cells = [grid_cells(idx, inside, np.isfinite(full.x))]
+    extra = []
+    # corner fan: triangles between consecutive rays next to the corner
+    for j in range(n - 1):
+        extra.append((c0 + j + 1, idx[0, j], idx[0, j + 1], c0 + j + 1))
+    last = [int(np.flatnonzero(inside[i])[-1]) for i in range(ni)]
+    # from the corner to the wall along C+ 0
+    chain0 = [idx[0, j] for j in range(n - 1, last[0] + 1)] + [w0]
+    for a, b in zip(chain0[:-1], chain0[1:]):
+        extra.append((c0 + n - 1, a, b, c0 + n - 1))
+    # strips between C+ i, C+ i+1 and the wall
+    for i in range(ni - 1):
+        start = min(last[i], last[i + 1])
+        ca = [idx[i, j] for j in range(start, last[i] + 1)] + [w0 + i]
+        cb = [idx[i + 1, j] for j in range(start, last[i + 1] + 1)] + [w0 + i + 1]
+        extra.extend(zipper(ca, cb, x, y))
+    cells.append(np.asarray(extra, dtype=np.int64).reshape(-1, 4))
+    arrs = net_arrays(x, y, th, ma, cp, cm, np.concatenate(cells, axis=0))
+    return Net(**arrs)

@@ -1,0 +1,279 @@
+"""Unit processes of the method of characteristics (homentropic flow).
+
+All functions are pure and vectorised: arrays of upstream points in, an array
+of new points out.  Planar and axisymmetric flow share one code path; the
+source term is switched by `delta` (0 planar, 1 axisymmetric).
+
+Compatibility relations per unit arc length s along each characteristic
+(steady irrotational homentropic flow; derivation in streamline coordinates as
+in Zucrow and Hoffman, Gas Dynamics vol. 2, 1977, ch. 16, from memory; the
+per-arc-length form avoids the 1/cos(theta -/+ mu) of the dx form near M = 1):
+
+    along C+ (direction theta + mu):  d(nu - theta) = delta sin(mu) sin(theta) / y ds
+    along C- (direction theta - mu):  d(nu + theta) = delta sin(mu) sin(theta) / y ds
+
+Predictor-corrector: the predictor takes directions and source terms at the
+known points, the corrector averages them between the known and the new point
+(trapezoidal rule), iterated to `tol`; the scheme is second order (local error
+O(step^3), checked on radial source flow in tests/test_unit_processes.py).
+
+On the axis sin(theta)/y -> d theta/dy, and the axisymmetric continuity
+equation gives d theta/dy = cot(mu) (d nu/dx) / 2 there; `axis_point` takes
+the limit from the upstream point (as in Zucrow and Hoffman, vol. 2, axis
+treatment, from memory).
+"""
+
+import numpy as np
+
+from moc.errors import ComputationError
+from moc.net._pm import _nu_t, mu_of_nu, pm_constants
+from moc.net.points import Points
+
+TOL = 1e-10
+MAXITER = 40
+#: below this change the iteration is accepted once it stops contracting (round-off floor,
+#: reached where the two characteristics are nearly tangent, M -> 1)
+FLOOR = 1e-9
+
+
+def _done(err, prev, tol):
+    return err <= tol or (err < FLOOR and err >= 0.5 * prev)
+
+
+def source(p_y, p_theta, p_mu, delta):
+    """delta sin(mu) sin(theta) / y; 0 is returned on the axis (y = 0), where the
+    caller supplies the limit (see `axis_point`)."""
+    if not delta:
+        return np.zeros_like(p_y)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(p_y > 0.0, np.sin(p_mu) * np.sin(p_theta) / p_y, 0.0)
+
+
+def _check(p, what, it):
+    if not (np.all(np.isfinite(p.x)) and np.all(np.isfinite(p.nu)) and np.all(np.isfinite(p.y))):
+        raise ComputationError(
+            f"the {what} unit process produced non-finite values (characteristics did not intersect "
+            "or the flow left the supersonic range); the net cannot be continued here."
+        )
+    if np.any(p.nu < 0.0):
+        raise ComputationError(
+            f"the {what} unit process reached a subsonic state (Prandtl-Meyer angle below 0); "
+            "a supersonic net cannot be continued here."
+        )
+    if it >= MAXITER:
+        raise ComputationError(
+            f"the {what} predictor-corrector did not converge in {MAXITER} iterations."
+        )
+
+
+def _intersect(xa, ya, aa, xb, yb, ab):
+    """Arc lengths (sa, sb) from A along angle aa and from B along angle ab to their crossing."""
+    ca, sa_ = np.cos(aa), np.sin(aa)
+    cb, sb_ = np.cos(ab), np.sin(ab)
+    det = cb * sa_ - ca * sb_  # = sin(aa - ab)
+    dx = xb - xa
+    dy = yb - ya
+    s_a = (cb * dy - sb_ * dx) / det
+    s_b = (ca * dy - sa_ * dx) / det
+    return s_a, s_b
+
+
+def interior_point(a, b, gamma, delta, tol=TOL, source_a=None):
+    """New point P on the C+ through `a` and the C- through `b` (arrays of Points).
+
+    `source_a` optionally gives the source term at the points `a` (needed where
+    an `a` lies on the axis: pass the value returned by `axis_point`; NaN
+    entries are computed from the state as usual).
+
+    Source: unit process of Zucrow and Hoffman, Gas Dynamics vol. 2 (1977),
+    modified Euler predictor-corrector (from memory), written per arc length.
+    The Mach angle of P is updated by one Newton step on nu^(1/3) per
+    corrector pass (the two iterations converge together).
+    """
+    k, c = pm_constants(gamma)
+    kk = 1.0 / (k * k)
+    sa = source(a.y, a.theta, a.mu, delta)
+    if source_a is not None and delta:
+        sa = np.where(np.isnan(source_a), sa, source_a)
+    sb = source(b.y, b.theta, b.mu, delta)
+    ap = a.theta + a.mu
+    bm = b.theta - b.mu
+    kp = a.nu - a.theta
+    km = b.nu + b.theta
+    dx = b.x - a.x
+    dy = b.y - a.y
+    alpha_p, alpha_m, sp, sm = ap, bm, sa, sb
+    t = 0.5 * (np.pi - a.mu - b.mu)  # warm start: t = pi/2 - mu, averaged
+    x = y = nu = None
+    prev = np.inf
+    for it in range(MAXITER + 1):
+        ca, sna = np.cos(alpha_p), np.sin(alpha_p)
+        cb, snb = np.cos(alpha_m), np.sin(alpha_m)
+        det = cb * sna - ca * snb
+        s1 = (cb * dy - snb * dx) / det
+        s2 = (ca * dy - sna * dx) / det
+        xn = a.x + s1 * ca
+        yn = a.y + s1 * sna
+        rp = kp + s1 * sp
+        rm = km + s2 * sm
+        nun = 0.5 * (rp + rm)
+        th = 0.5 * (rm - rp)
+        t = _newton_t(t, nun, k, kk, c)
+        t = _newton_t(t, nun, k, kk, c) if it == 0 else t
+        mu = 0.5 * np.pi - t
+        if x is not None:
+            err = max(np.abs(nun - nu).max(initial=0.0), np.abs(yn - y).max(initial=0.0),
+                      np.abs(xn - x).max(initial=0.0))
+        else:
+            err = np.inf
+        x, y, nu = xn, yn, nun
+        if _done(err, prev, tol):
+            break
+        prev = err
+        alpha_p = 0.5 * (ap + th + mu)
+        alpha_m = 0.5 * (bm + th - mu)
+        if delta:
+            s_p = np.sin(mu) * np.sin(th) / y
+            sp = 0.5 * (sa + s_p)
+            sm = 0.5 * (sb + s_p)
+    # finish the Mach angle to round-off at the converged nu
+    mu = mu_of_nu(nu, gamma, mu)
+    p = Points(x, y, th, nu, mu)
+    _check(p, "interior point", it)
+    return p
+
+
+def _newton_t(t, nu, k, kk, c):
+    """One safeguarded Newton step for t = pi/2 - mu on nu(t)^(1/3) = nu^(1/3)."""
+    nv, tb2 = _nu_t(t, k, kk)
+    cn = np.cbrt(nv)
+    dt = (cn - np.cbrt(np.maximum(nu, 1e-300))) * 3.0 * cn * cn * (1.0 + tb2 * kk) / (c * tb2)
+    return np.minimum(np.maximum(t - dt, 0.5 * t), 0.25 * np.pi + 0.5 * t)
+
+
+def axis_point(a, gamma, delta, tol=TOL, return_source=False):
+    """New point on the axis (y = 0, theta = 0) reached by the C- through `a`.
+
+    The source term at the axis point is the limit sin(theta)/y -> d theta/dy;
+    it is taken equal to its value at the known upstream point `a` (stable; a
+    marched net stays second order, measured on spherical source flow in
+    tests/test_unit_processes.py, where a backward-difference estimate of the
+    axis relation d theta/dy = cot(mu) (d nu/dx)/2 was tried and found to
+    grow oscillations).  With `return_source` the source term used at the new
+    point is returned too, as (points, source), for the C+ leaving it.
+    """
+    sa = source(a.y, a.theta, a.mu, delta)
+    am = a.theta - a.mu
+    km = a.nu + a.theta
+    alpha = am
+    s_avg = sa
+    s_p = sa
+    mu = a.mu
+    nu = x = None
+    prev = np.inf
+    for it in range(MAXITER + 1):
+        s = -a.y / np.sin(alpha)
+        xn = a.x + s * np.cos(alpha)
+        nun = km + s * s_avg
+        mu = mu_of_nu(nun, gamma, mu)
+        if nu is not None:
+            err = max(np.abs(xn - x).max(initial=0.0), np.abs(nun - nu).max(initial=0.0))
+        else:
+            err = np.inf
+        x, nu = xn, nun
+        if _done(err, prev, tol):
+            break
+        prev = err
+        alpha = 0.5 * (am - mu)
+    z = np.zeros_like(x)
+    p = Points(x, z, z.copy(), nu, mu)
+    _check(p, "axis point", it)
+    if return_source:
+        return p, np.asarray(s_p, dtype=float) * np.ones_like(x)
+    return p
+
+
+def wall_point(a, w, theta_p, gamma, delta, tol=TOL):
+    """Direct wall point: the wall angle `theta_p` at the new point is known.
+
+    P lies on the C+ through `a` and on the wall segment from the previous
+    wall point `w` at the mean angle (theta_w + theta_p)/2; the flow angle at
+    P is theta_p and nu follows from the C+ compatibility relation.
+    """
+    theta_p = np.broadcast_to(np.asarray(theta_p, dtype=float), np.shape(a.x)).copy()
+    sa = source(a.y, a.theta, a.mu, delta)
+    ap = a.theta + a.mu
+    kp = a.nu - a.theta
+    aw = 0.5 * (w.theta + theta_p)
+    alpha = ap
+    s_avg = sa
+    mu = a.mu
+    x = nu = None
+    prev = np.inf
+    for it in range(MAXITER + 1):
+        s1, _ = _intersect(a.x, a.y, alpha, w.x, w.y, aw)
+        xn = a.x + s1 * np.cos(alpha)
+        yn = a.y + s1 * np.sin(alpha)
+        nun = kp + theta_p + s1 * s_avg
+        mu = mu_of_nu(nun, gamma, mu)
+        if x is not None:
+            err = max(np.abs(xn - x).max(initial=0.0), np.abs(nun - nu).max(initial=0.0))
+        else:
+            err = np.inf
+        x, y, nu = xn, yn, nun
+        if _done(err, prev, tol):
+            break
+        prev = err
+        alpha = 0.5 * (ap + theta_p + mu)
+        if delta:
+            s_avg = 0.5 * (sa + source(y, theta_p, mu, delta))
+    p = Points(x, y, theta_p, nu, mu)
+    _check(p, "wall point", it)
+    return p
+
+
+def inverse_wall_point(a, curve, gamma, delta, tol=TOL):
+    """Wall point on a known wall curve: the flow there is found.
+
+    `curve(x)` returns (y, dy/dx) of the upper wall, vectorised.  P is where
+    the C+ through `a` meets the curve; theta_P = atan(dy/dx) and nu_P follows
+    from the C+ compatibility relation (predictor-corrector as above; the
+    intersection with the curve is found by Newton's method along the C+).
+    """
+    sa = source(a.y, a.theta, a.mu, delta)
+    ap = a.theta + a.mu
+    kp = a.nu - a.theta
+    alpha = ap
+    s_avg = sa
+    mu = a.mu
+    s = np.zeros_like(a.x)
+    x = nu = None
+    prev = np.inf
+    for it in range(MAXITER + 1):
+        ca, sn = np.cos(alpha), np.sin(alpha)
+        for _ in range(50):
+            yc, dc = curve(a.x + s * ca)
+            g = a.y + s * sn - yc
+            ds = -g / (sn - dc * ca)
+            s = s + ds
+            if np.abs(ds).max(initial=0.0) <= 1e-14:
+                break
+        xn = a.x + s * ca
+        yn, dydx = curve(xn)
+        th = np.arctan(dydx)
+        nun = kp + th + s * s_avg
+        mu = mu_of_nu(nun, gamma, mu)
+        if x is not None:
+            err = max(np.abs(xn - x).max(initial=0.0), np.abs(nun - nu).max(initial=0.0))
+        else:
+            err = np.inf
+        x, y, nu = xn, np.asarray(yn, dtype=float), nun
+        if _done(err, prev, tol):
+            break
+        prev = err
+        alpha = 0.5 * (ap + th + mu)
+        if delta:
+            s_avg = 0.5 * (sa + source(y, th, mu, delta))
+    p = Points(x, y, np.asarray(th, dtype=float), nu, mu)
+    _check(p, "inverse wall point", it)
+    return p

@@ -1,0 +1,127 @@
+"""Minimum-length nozzle designer: checks against published facts and exact invariants."""
+
+import math
+
+import numpy as np
+import pytest
+
+from moc.design import design_minimum_length
+from moc.errors import GammaError, InputError, MachError
+from moc.flow import area_ratio, prandtl_meyer
+from moc.result import Net, Result
+
+
+@pytest.fixture(scope="module")
+def planar24():
+    return design_minimum_length(2.4, 1.4, "planar", 100)
+
+
+@pytest.fixture(scope="module")
+def axi3():
+    return design_minimum_length(3.0, 1.4, "axisymmetric", 100)
+
+
+@pytest.mark.parametrize("me", [2.0, 2.4, 3.0, 4.0])
+def test_planar_corner_angle_is_half_prandtl_meyer(me):
+    # Source: Anderson, Modern Compressible Flow, nozzle design by the method of
+    # characteristics (from memory): planar minimum-length corner angle = nu(Me)/2;
+    # values 13.1899, 18.3733, 24.8787, 32.8924 deg listed in VALIDATION.md.
+    r = design_minimum_length(me, 1.4, "planar", 12)
+    expected = {2.0: 13.1899, 2.4: 18.3733, 3.0: 24.8787, 4.0: 32.8924}[me]
+    assert r.summary["corner_angle_deg"] == pytest.approx(expected, abs=1e-4)
+    assert r.summary["max_wall_angle_deg"] == pytest.approx(expected, abs=1e-4)
+
+
+def test_planar_acceptance_numbers(planar24):
+    s = planar24.summary
+    # Source: nu(2.4)/2 = 36.7465/2 deg (NACA Report 1135, Prandtl-Meyer function).
+    assert abs(s["max_wall_angle_deg"] - 36.7465 / 2) < 1e-3
+    # Source: NACA Report 1135, A/A*(2.4) = 2.40310 (isentropic area relation).
+    assert abs(s["area_ratio"] / 2.4031 - 1) < 2e-4
+    assert abs(s["area_ratio_streamline"] / 2.4031 - 1) < 2e-4
+
+
+def test_axisymmetric_acceptance_numbers(axi3):
+    s = axi3.summary
+    # Source: NACA Report 1135, A/A*(3) = 4.23457 (isentropic area relation).
+    assert abs(s["area_ratio"] / 4.2346 - 1) < 1e-3
+    assert abs(s["area_ratio_streamline"] / 4.2346 - 1) < 1e-3
+    assert s["exit_mach_max_dev"] < 2e-3
+    # Source: fact of the trade (Argrow and Emanuel, J. Fluids Eng. 110(3), 1988,
+    # from memory): the axisymmetric corner angle lies below the planar nu(Me)/2.
+    assert s["corner_angle_deg"] < 49.7573 / 2
+    assert s["max_wall_angle_deg"] < 24.88
+
+
+def test_axisymmetric_shorter_than_planar():
+    # Source: fact of the trade (Argrow and Emanuel 1988, from memory): for the same
+    # Me the axisymmetric minimum-length nozzle is shorter than the planar one.
+    for me in (2.0, 3.0):
+        a = design_minimum_length(me, 1.4, "axisymmetric", 30).summary
+        p = design_minimum_length(me, 1.4, "planar", 30).summary
+        assert a["length"] < p["length"]
+        assert a["corner_angle_deg"] < p["corner_angle_deg"]
+
+
+def test_axis_reaches_exit_mach_at_kernel_end(axi3):
+    # Exact invariant of the design: the centreline Mach number rises monotonically
+    # from 1 at the throat to Me where the kernel ends and stays Me downstream.
+    ax = axi3.axis
+    assert ax["mach"][0] == 1.0
+    assert np.all(np.diff(ax["mach"]) >= -1e-12)
+    assert ax["mach"][-2] == pytest.approx(3.0, abs=1e-9)
+
+
+def test_result_contract(axi3):
+    r = axi3
+    assert isinstance(r, Result) and isinstance(r.net, Net)
+    assert r.kind == "design"
+    assert r.inputs == {"method": "minimum_length", "exit_mach": 3.0, "gamma": 1.4,
+                        "geometry": "axisymmetric", "characteristics": 100}
+    for key in ("geometry", "gamma", "exit_mach", "exit_mach_max_dev", "area_ratio",
+                "area_ratio_isentropic", "length", "max_wall_angle_deg", "corner_angle_deg",
+                "characteristics", "points", "mass_flow_error", "wall_streamline_difference"):
+        assert key in r.summary
+    w = r.wall
+    assert w["x"][0] == 0.0 and w["y"][0] == 1.0
+    assert np.all(np.diff(w["x"]) > 0)
+    assert r.summary["length"] == w["x"][-1]
+    # Source: NACA Report 1135 isentropic relations: p/p0 at the wall from its Mach number.
+    g = 1.4
+    assert np.allclose(w["p_p0"], (1 + 0.5 * (g - 1) * w["mach"] ** 2) ** (-g / (g - 1)))
+    assert r.net.size == r.summary["points"]
+    assert np.all(r.net.p0_ratio == 1.0)
+    # cells counter-clockwise (positive shoelace area), common practice for meshes
+    px, py = r.net.x[r.net.cells], r.net.y[r.net.cells]
+    area = 0.5 * np.sum(px * np.roll(py, -1, 1) - np.roll(px, -1, 1) * py, axis=1)
+    assert np.all(area > 0)
+    assert r.summary["area_ratio_isentropic"] == pytest.approx(area_ratio(3.0, 1.4), rel=1e-14)
+
+
+@pytest.mark.parametrize(
+    "kwargs, err",
+    [
+        ({"exit_mach": 1.0}, MachError),
+        ({"exit_mach": 0.7}, MachError),
+        ({"exit_mach": float("nan")}, MachError),
+        ({"exit_mach": "fast"}, MachError),
+        ({"exit_mach": 2.0, "gamma": 0.9}, GammaError),
+        ({"exit_mach": 2.0, "geometry": "conical"}, InputError),
+        ({"exit_mach": 2.0, "n": 2}, InputError),
+        ({"exit_mach": 2.0, "n": 10.5}, InputError),
+        # nu(30)/2 = 142 deg for gamma = 1.1: a sharp corner cannot turn the wall past 90 deg
+        ({"exit_mach": 30.0, "gamma": 1.1, "geometry": "planar"}, MachError),
+    ],
+)
+def test_bad_input(kwargs, err):
+    with pytest.raises(err) as e:
+        design_minimum_length(**kwargs)
+    assert str(e.value).endswith(".")
+
+
+def test_turning_limit_is_stated():
+    # the limit follows from nu(Me)/2 < 90 deg (common practice statement of the corner limit)
+    g = 1.1
+    with pytest.raises(MachError, match="90 deg"):
+        design_minimum_length(30.0, g, "planar")
+    assert math.degrees(prandtl_meyer(30.0, g)) / 2 > 90

@@ -132,8 +132,10 @@ class ExportContext:
             raise ExportError(
                 f"the result's geometry is {self.geometry!r}; exports need 'planar' or 'axisymmetric'."
             )
+        inputs = result.inputs or {}
+        gas = inputs.get("gas") if isinstance(inputs.get("gas"), dict) else {}
         try:
-            self.gamma = float(s.get("gamma", (result.inputs or {}).get("gamma")))
+            self.gamma = float(s.get("gamma", inputs.get("gamma", gas.get("gamma"))))
         except (TypeError, ValueError):
             raise ExportError("the result's summary has no ratio of specific heats 'gamma'.") from None
         if not (math.isfinite(self.gamma) and self.gamma > 1.0):

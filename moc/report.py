@@ -81,7 +81,7 @@ h1{font-size:1.55rem;margin:.4rem 0 .2rem}h2{font-size:1.15rem;margin:2rem 0 .5r
 .caution strong{color:#8a3200}
 table{border-collapse:collapse;margin:.4rem 0;font-size:.92rem}
 th,td{border:1px solid #c9c9c9;padding:.22rem .55rem;text-align:left;vertical-align:top}
-th{background:#eef2f6}td.num{text-align:right;font-variant-numeric:tabular-nums;font-family:ui-monospace,monospace}
+th{background:#eef2f6}td.num{text-align:right;white-space:nowrap;font-variant-numeric:tabular-nums;font-family:ui-monospace,monospace}
 .ok{color:#005f46;font-weight:600}.warn{color:#8a3200;font-weight:600}
 figure{margin:1rem 0}figure img{max-width:100%;border:1px solid #ddd;background:#fff}
 figcaption{font-size:.88rem;color:#444}
@@ -428,7 +428,12 @@ def _shock_section(result):
                              f"{_e(fmt_value(float(x[-1])))}"
                              + (f", largest p2/p1 = {_e(fmt_value(float(p.max())))}" if p.size else "") + ".</p>")
     if not parts:
-        parts.append("<p>This result records no shock analysis.</p>")
+        if result.kind == "design":
+            parts.append("<p>This design records no shock check. A contour traced through a shock-free net is "
+                         "shock-free by construction; run <code>moc analyze</code> on the built, truncated or "
+                         "modified contour to look for internal shocks.</p>")
+        else:
+            parts.append("<p>This result records no shock analysis.</p>")
     return "".join(parts)
 
 

@@ -252,3 +252,32 @@ def Path_(p):
     from pathlib import Path
 
     return Path(p)
+
+
+def test_every_command_help_has_an_example_and_exit_codes():
+    # Common practice for command-line tools: each sub-command's help ends with a
+    # runnable example, and the top-level help states the exit statuses.
+    import argparse
+
+    from moc.cli import build_parser
+
+    parser = build_parser()
+    sub = next(a for a in parser._actions if isinstance(a, argparse._SubParsersAction))
+    assert {"plot", "report"} <= set(sub.choices)
+    for name, p in sub.choices.items():
+        epilog = p.epilog or ""
+        assert "example:" in epilog, name
+        assert f"moc {name}" in epilog, name
+        assert p.format_help().strip(), name
+    assert "0 success, 2 bad input, 1 computation failed" in parser.format_help().replace("\n", " ")
+
+
+def test_plot_is_quiet_off_a_terminal(tmp_path, capsys):
+    # progress goes to stderr only for an interactive terminal (moc/commands/_common.py)
+    from moc.cli import main
+
+    d = _save_dir(tmp_path, source_flow_result())
+    assert main(["plot", str(d), "--what", "wall", "--dpi", "30", "--quiet"]) == 0
+    out, err = capsys.readouterr()
+    assert out == "" and err == ""
+    assert (d / "wall.png").stat().st_size > 1000

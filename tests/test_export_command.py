@@ -8,7 +8,7 @@ import pytest
 from moc.cli import main
 from test_export_common import source_flow_result
 
-ACCEPT = ["wall.csv", "wall.dxf", "wall.stl", "flowfield.vtu", "domain.su2"]
+ACCEPT = ["wall_points.csv", "wall.dxf", "wall.stl", "flowfield.vtu", "domain.su2"]
 
 
 @pytest.fixture()
@@ -52,7 +52,7 @@ def test_a_failing_format_leaves_nothing_behind(saved, tmp_path, monkeypatch, ca
 
     out = tmp_path / "out"
     out.mkdir()
-    (out / "wall.csv").write_text("the user's own file\n")
+    (out / "wall_points.csv").write_text("the user's own file\n")
 
     def broken(path, ctx):
         open(path, "w").write("half a file")
@@ -62,15 +62,15 @@ def test_a_failing_format_leaves_nothing_behind(saved, tmp_path, monkeypatch, ca
     assert main(["export", str(saved), "--format", "csv,stl,vtu", "-o", str(out), "--force"]) == 2
     err = capsys.readouterr().err
     assert "disk full" in err and "Traceback" not in err
-    assert [p.name for p in out.iterdir()] == ["wall.csv"]
-    assert (out / "wall.csv").read_text() == "the user's own file\n"
+    assert [p.name for p in out.iterdir()] == ["wall_points.csv"]
+    assert (out / "wall_points.csv").read_text() == "the user's own file\n"
 
 
 def test_json_output_and_default_directory(saved, capsys):
     assert main(["export", str(saved), "--format", "csv", "--json"]) == 0
     doc = json.loads(capsys.readouterr().out)
-    assert doc["unit"] == "mm" and doc["files"]["csv"].endswith("export/wall.csv")
-    assert (saved / "export" / "wall.csv").exists()
+    assert doc["unit"] == "mm" and doc["files"]["csv"].endswith("export/wall_points.csv")
+    assert (saved / "export" / "wall_points.csv").exists()
 
 
 @pytest.mark.parametrize("extra,needle", [

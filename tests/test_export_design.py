@@ -43,7 +43,7 @@ def test_designed_nozzle_exports_read_back(designed, tmp_path):
     assert main(["export", str(designed), "--format", "csv,dxf,stl,vtu,su2", "-o", str(out), "-q",
                  "--chord-tolerance", "0.001", "--first-cell", "0.01"]) == 0
     res = Result.load(designed)
-    _, parts, data = read_csv(out / "wall.csv")
+    _, parts, data = read_csv(out / "wall_points.csv")
     # Source: area ratio A/A* = (1/M)[2/(g+1)(1 + (g-1)/2 M^2)]^((g+1)/(2(g-1))), NACA Report 1135.
     ar = (2 / (G + 1) * (1 + 0.5 * (G - 1) * ME ** 2)) ** ((G + 1) / (2 * (G - 1))) / ME
     assert data[-1, 1] / 10.0 == pytest.approx(math.sqrt(ar), rel=1e-2)

@@ -24,7 +24,7 @@ from moc.io.atomic import atomic_path, check_writable
 
 #: format name -> (module, file name, description): the public contract of `moc export --format`.
 TABLE = {
-    "csv": ("csv_wall", "wall.csv",
+    "csv": ("csv_wall", "wall_points.csv",
              "wall points for machining (inlet face to exit) with slope and curvature, chord-error spaced"),
     "dxf": ("dxf_wall", "wall.dxf",
              "wall as splines (one per smooth part) and a polyline, axis on its own layer (DXF R2000, units in $INSUNITS)"),

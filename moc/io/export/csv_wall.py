@@ -34,6 +34,6 @@ def write(path, ctx):
     with open(path, "w", encoding="utf-8", newline="") as fh:
         fh.write(buf.getvalue())
     ctx.note(
-        f"wall.csv: {p['x'].size} points, largest chord error {p['max_chord_error'] * k:.3g} {u} "
+        f"wall_points.csv: {p['x'].size} points, largest chord error {p['max_chord_error'] * k:.3g} {u} "
         f"(tolerance {ctx.chord_tolerance * k:.3g} {u})"
     )

@@ -95,6 +95,27 @@ class ExportReport:
         return len(self.files)
 
 
+def _write_all(ctx, jobs, force):
+    """Write (format, module, target) jobs all or nothing; every check runs before the first write."""
+    for _, mod, _ in jobs:
+        check = getattr(mod, "check", None)
+        if check:
+            check(ctx)
+    check_writable([t for _, _, t in jobs], force)
+    report = ExportReport(unit=ctx.unit)
+    try:
+        with contextlib.ExitStack() as stack:
+            for name, mod, target in jobs:
+                tmp = stack.enter_context(atomic_path(target, force=force))
+                mod.write(tmp, ctx)
+                report.files.append((name, target))
+    except OSError as exc:
+        where = exc.filename or ", ".join(str(t) for _, _, t in jobs)
+        raise ExportError(f"could not write {where}: {exc.strerror or exc}; no exported file was written or changed.") from exc
+    report.notes = list(ctx.notes)
+    return report
+
+
 def export(result, formats, out_dir, units=None, options=None, force=False):
     """Write the requested formats of `result` into `out_dir`, all or nothing.
 
@@ -110,24 +131,7 @@ def export(result, formats, out_dir, units=None, options=None, force=False):
     out_dir = Path(out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise ExportError(f"{out_dir} exists and is not a directory; give a directory for the exported files.")
-    mods = [format_module(n) for n in names]
-    for n, mod in zip(names, mods):
-        check = getattr(mod, "check", None)
-        if check:
-            check(ctx)
-    targets = [out_dir / TABLE[n][1] for n in names]
-    check_writable(targets, force)
-    report = ExportReport(unit=ctx.unit)
-    try:
-        with contextlib.ExitStack() as stack:
-            for name, mod, target in zip(names, mods, targets):
-                tmp = stack.enter_context(atomic_path(target, force=force))
-                mod.write(tmp, ctx)
-                report.files.append((name, target))
-    except OSError as exc:
-        raise ExportError(f"could not write {target}: {exc}; no exported file was written or changed.") from exc
-    report.notes = list(ctx.notes)
-    return report
+    return _write_all(ctx, [(n, format_module(n), out_dir / TABLE[n][1]) for n in names], force)
 
 
 def write(fmt, path, result, options=None, units=None, force=False):
@@ -135,16 +139,7 @@ def write(fmt, path, result, options=None, units=None, force=False):
     from moc.io.export.context import ExportContext
 
     mod = format_module(fmt)
-    ctx = ExportContext(result, units, options)
-    check = getattr(mod, "check", None)
-    if check:
-        check(ctx)
-    try:
-        with atomic_path(path, force=force) as tmp:
-            mod.write(tmp, ctx)
-    except OSError as exc:
-        raise ExportError(f"could not write {path}: {exc}; the file was not written or changed.") from exc
-    return ExportReport(unit=ctx.unit, files=[(fmt, Path(path))], notes=list(ctx.notes))
+    return _write_all(ExportContext(result, units, options), [(str(fmt).strip().lower(), mod, Path(path))], force)
 
 
 def __getattr__(name):

@@ -221,3 +221,19 @@ def test_csv_runs_from_inlet_face_to_exit_with_caution(tmp_path):
     assert np.all(np.diff(data[:, 0]) > 0)
     # arc-length column is the polyline length
     assert np.allclose(np.diff(data[:, 5]), np.hypot(np.diff(data[:, 0]), np.diff(data[:, 1])), rtol=1e-9)
+
+
+def test_export_leaves_the_result_unchanged_and_joins_inlet_to_wall(tmp_path):
+    """The inlet is cut where the wall begins, without a repeated point; the saved arrays are not modified."""
+    from moc.io.export import write
+    res = source_flow_result()
+    ix, iy = inlet_arc()
+    res.inlet = {"x": np.append(ix, 0.05), "y": np.append(iy, 1.01)}  # one inlet point past the throat
+    before = {k: v.copy() for k, v in res.inlet.items()}
+    write("csv", tmp_path / "w.csv", res, units="mm")
+    for k in before:
+        assert np.array_equal(res.inlet[k], before[k])
+    _, parts, data = read_csv(tmp_path / "w.csv")
+    assert np.all(np.diff(data[:, 0]) > 0)
+    first_wall = parts.index("wall")
+    assert data[first_wall, 0] == 0.0 and data[first_wall, 1] == pytest.approx(THROAT_MM, rel=1e-15)

@@ -111,37 +111,13 @@ class Contour:
         if ix.size:
             if ix[0] > ix[-1]:
                 ix, iy = ix[::-1], iy[::-1]
-            if np.hypot(ix[-1] - wx[0], iy[-1] - wy[0]) > 1e-12 * max(1.0, abs(wy[0])):
-                ix, iy = np.append(ix, wx[0]), np.append(iy, wy[0])
-            else:
-                ix[-1], iy[-1] = wx[0], wy[0]
+            # the inlet ends where the wall begins: drop inlet points at or past the wall's first point
+            keep = ix < wx[0] - 1e-12 * max(1.0, abs(wy[0]))
+            ix, iy = np.append(ix[keep], wx[0]), np.append(iy[keep], wy[0])
             if ix.size >= 2:
                 pieces.append(_make_piece("inlet", ix, iy))
         pieces.append(_make_piece("wall", wx, wy, wt))
         return cls(pieces)
-
-    @property
-    def start(self):
-        p = self.pieces[0]
-        x, y = p.eval(np.array([p.t0]))
-        return float(x[0]), float(y[0])
-
-    @property
-    def end(self):
-        p = self.pieces[-1]
-        x, y = p.eval(np.array([p.t1]))
-        return float(x[0]), float(y[0])
-
-    def dense(self, per_knot=_DENSE_PER_KNOT):
-        """Dense (x, y) samples along the whole contour, for volumes and plots."""
-        xs, ys = [], []
-        for k, p in enumerate(self.pieces):
-            t = _refine(p.t, per_knot)
-            x, y = p.eval(t)
-            sl = slice(1, None) if k else slice(None)
-            xs.append(x[sl])
-            ys.append(y[sl])
-        return np.concatenate(xs), np.concatenate(ys)
 
 
 def _refine(t, m):

@@ -1,0 +1,189 @@
+"""Nozzle performance from a designed or analysed flowfield.
+
+Thrust is the x-momentum plus pressure flux across any curve from the axis to
+the exit lip (the exit characteristic or the exit plane): by momentum
+conservation every such curve gives the same value when the flow between it
+and the exit plane touches no wall.  Per unit span of the half nozzle
+(planar) or over the full circle (axisymmetric), with dA = ((1+d) y^d) dy in
+units of the throat area A_t:
+
+    C_F = F / (p0 A_t) = (1+d) INT { p/p0 [g M^2 cos(theta) (cos(theta) dy - sin(theta) dx) + dy]
+                                     - pa/p0 dy } y^d
+
+Source: control-volume thrust, Sutton and Biblarz, Rocket Propulsion
+Elements, ideal-rocket chapter (momentum and pressure thrust).  The ideal
+one-dimensional value is Sutton and Biblarz's relation
+
+    C_F = sqrt(2 g^2/(g-1) (2/(g+1))^((g+1)/(g-1)) (1 - (pe/p0)^((g-1)/g))) + eps (pe - pa)/p0.
+
+Lengths in throat half-heights / radii, angles radians inside (degrees in the
+returned dictionary, keys ending in _deg).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from moc.errors import InputError
+from moc.flow import area_ratio as _area_ratio
+from moc.flow import choked_mass_flow_parameter, mach_from_area_ratio, pressure_ratio
+from moc.flow._checks import check_gamma
+
+
+def _delta(geometry):
+    if geometry not in ("planar", "axisymmetric"):
+        raise InputError(f"geometry must be 'planar' or 'axisymmetric', got {geometry!r}.")
+    return 1 if geometry == "axisymmetric" else 0
+
+
+def _check_ambient(ambient_ratio):
+    if ambient_ratio is None:
+        return None
+    try:
+        pa = float(ambient_ratio)
+    except (TypeError, ValueError):
+        raise InputError(f"ambient-to-chamber pressure ratio must be a number, got {ambient_ratio!r}.") from None
+    if not math.isfinite(pa) or pa < 0.0 or pa >= 1.0:
+        raise InputError(
+            f"ambient-to-chamber pressure ratio must satisfy 0 <= pa/p0 < 1 (a nozzle needs a pressure drop), got {pa!r}."
+        )
+    return pa
+
+
+def ideal_thrust_coefficient(area_ratio, gamma=1.4, ambient_ratio=None):
+    """One-dimensional ideal thrust coefficient for exit/throat area ratio `area_ratio`.
+
+    ambient_ratio: pa/p0 (None: vacuum).  Source: Sutton and Biblarz, Rocket
+    Propulsion Elements, ideal-rocket chapter (thrust-coefficient equation).
+    """
+    g = check_gamma(gamma)
+    pa = _check_ambient(ambient_ratio)
+    try:
+        eps = float(area_ratio)
+    except (TypeError, ValueError):
+        raise InputError(f"area ratio must be a number of at least 1, got {area_ratio!r}.") from None
+    if not math.isfinite(eps) or eps < 1.0:
+        raise InputError(f"area ratio A_e/A_t must be a finite number of at least 1, got {area_ratio!r}.")
+    me = mach_from_area_ratio(eps, g, supersonic=True)
+    pe = pressure_ratio(me, g)
+    mom = math.sqrt(2.0 * g * g / (g - 1.0) * (2.0 / (g + 1.0)) ** ((g + 1.0) / (g - 1.0))
+                    * (1.0 - pe ** ((g - 1.0) / g)))
+    return mom + eps * (pe - (pa or 0.0))
+
+
+def exit_fluxes(x, y, theta, mach, gamma, geometry):
+    """Integrals across a curve from the axis to the lip (points in order, trapezoidal rule).
+
+    Returns dict: momentum (x-momentum flux / (p0 A_t)), pressure (INT p/p0 dA / A_t),
+    area (projected exit area / A_t), mass (mass flow over rho* a* A_t, i.e. the
+    one-dimensional sonic flow through the throat), mass_velocity (mass-averaged u / a*).
+    """
+    g = check_gamma(gamma)
+    d = _delta(geometry)
+    x, y, th, m = (np.asarray(v, float) for v in (x, y, theta, mach))
+    if x.ndim != 1 or x.size < 2 or not (x.shape == y.shape == th.shape == m.shape):
+        raise InputError("an exit curve needs at least two points with x, y, theta and Mach of equal length.")
+    if not (np.all(np.isfinite(x)) and np.all(np.isfinite(y)) and np.all(np.isfinite(th)) and np.all(np.isfinite(m))):
+        raise InputError("the exit curve has non-finite values; the flowfield does not reach the exit.")
+    if abs(y[0]) > 1e-9 or np.any(np.diff(y) <= 0):
+        raise InputError("the exit curve must start on the axis (y = 0) and rise monotonically to the lip.")
+    p = pressure_ratio(m, g)
+    dy, dx = np.diff(y), np.diff(x)
+    w = (1.0 + d) * y**d
+    c, s = np.cos(th), np.sin(th)
+
+    def seg(f_dy, f_dx=None):
+        # trapezoid on each segment of the integrand times the radius weight
+        v = 0.5 * ((f_dy * w)[1:] + (f_dy * w)[:-1]) * dy
+        if f_dx is not None:
+            v = v - 0.5 * ((f_dx * w)[1:] + (f_dx * w)[:-1]) * dx
+        return float(np.sum(v))
+
+    gm2 = g * m * m * p
+    rho_v = 1.0 / _area_ratio(m, g)       # rho V / (rho* a*), NACA Report 1135
+    a_ratio = np.sqrt((g + 1.0) / 2.0 * m * m / (1.0 + 0.5 * (g - 1.0) * m * m))  # V / a*
+    mass = seg(rho_v * c, rho_v * s)
+    mom = seg(gm2 * c * c, gm2 * c * s)
+    return {
+        "momentum": mom,
+        "pressure": seg(p),
+        "area": float(y[-1] ** (1 + d)),
+        "mass": mass,
+        "mass_velocity": seg(rho_v * a_ratio * c * c, rho_v * a_ratio * c * s) / mass,
+    }
+
+
+def wetted_area(x, y, geometry):
+    """Wall surface area in throat units^2: 2 pi INT y ds (axisymmetric) or the length
+    of both contoured walls per unit span, 2 INT ds (planar)."""
+    d = _delta(geometry)
+    x, y = np.asarray(x, float), np.asarray(y, float)
+    ds = np.hypot(np.diff(x), np.diff(y))
+    if d:
+        return float(2.0 * np.pi * np.sum(0.5 * (y[1:] + y[:-1]) * ds))
+    return float(2.0 * np.sum(ds))
+
+
+def performance(result, ambient_ratio=None):
+    """Performance numbers of a design or analysis result, JSON-ready.
+
+    Keys: discharge_coefficient, mass_flow_parameter (mdot sqrt(R T0)/(p0 A_t)),
+    exit_mass_flow_ratio (exit flux over the throat's 1-D sonic flow),
+    thrust_coefficient_vacuum, thrust_coefficient (at pa/p0 when given, else
+    vacuum), thrust_coefficient_ideal_1d (vacuum, Sutton and Biblarz, at the
+    effective area ratio A_e/(Cd A_t), per unit sonic area, so a real nozzle's
+    C_F compares with Cd times it), thrust_coefficient_ideal_1d_ambient,
+    divergence_efficiency (C_F,vac / (Cd C_F,ideal_1d): 1 for a uniform
+    parallel exit), exit_mach_mean (mass-weighted), exit_mach_spread,
+    exit_flow_angle_max_deg, exit_area_ratio, length, wetted_area
+    (+ wetted_area_inlet with an inlet).
+    """
+    s = result.summary
+    try:
+        g = check_gamma(s["gamma"])
+        geometry = s["geometry"]
+    except KeyError as exc:
+        raise InputError(f"the result's summary lacks {exc.args[0]!r}; it is not a complete moc result.") from None
+    d = _delta(geometry)
+    pa = _check_ambient(ambient_ratio)
+    ex = result.exit
+    for k in ("x", "y", "theta", "mach"):
+        if k not in ex:
+            raise InputError(f"the result has no exit profile field {k!r}; performance needs the exit flow.")
+    fl = exit_fluxes(ex["x"], ex["y"], ex["theta"], ex["mach"], g, geometry)
+    cd = float(s.get("discharge_coefficient", fl["mass"]))
+    cf_vac = fl["momentum"] + fl["pressure"]
+    cf = cf_vac - (pa or 0.0) * fl["area"]
+    eps_eff = max(fl["area"] / cd, 1.0)
+    cf_1d = ideal_thrust_coefficient(eps_eff, g)
+    m = np.asarray(ex["mach"], float)
+    out = {
+        "discharge_coefficient": cd,
+        "mass_flow_parameter": cd * choked_mass_flow_parameter(g),
+        "exit_mass_flow_ratio": fl["mass"],
+        "thrust_coefficient_vacuum": cf_vac,
+        "thrust_coefficient": cf,
+        "thrust_coefficient_ideal_1d": cf_1d,
+        "divergence_efficiency": cf_vac / (cd * cf_1d),
+        "exit_area_ratio": fl["area"],
+        "exit_mach_mean": float(mach_from_speed(fl["mass_velocity"], g)),
+        "exit_mach_spread": float(m.max() - m.min()),
+        "exit_flow_angle_max_deg": float(np.degrees(np.max(np.abs(ex["theta"])))),
+        "length": float(np.max(result.wall["x"])) if "x" in result.wall else float(s.get("length", 0.0)),
+        "wetted_area": wetted_area(result.wall["x"], result.wall["y"], geometry) if "x" in result.wall else 0.0,
+    }
+    if pa is not None:
+        out["ambient_ratio"] = pa
+        out["thrust_coefficient_ideal_1d_ambient"] = ideal_thrust_coefficient(eps_eff, g, pa)
+    if result.inlet and "x" in result.inlet:
+        out["wetted_area_inlet"] = wetted_area(result.inlet["x"], result.inlet["y"], geometry)
+    return out
+
+
+def mach_from_speed(v_astar, gamma):
+    """Mach number from speed over critical speed M* (NACA Report 1135): M^2 = 2 M*^2 / ((g+1) - (g-1) M*^2)."""
+    g = float(gamma)
+    v2 = float(v_astar) ** 2
+    return math.sqrt(2.0 * v2 / ((g + 1.0) - (g - 1.0) * v2))

@@ -41,7 +41,7 @@ TABLE = {
     "su2": ("su2", "domain.su2",
              "structured CFD domain mesh with named markers inlet/outlet/wall/axis|symmetry[/farfield] (SU2)"),
     "mesh-msh": ("mesh_msh", "domain.msh",
-             "the same CFD domain mesh with named physical groups (Gmsh MSH 2.2 binary)"),
+             "the same CFD domain mesh with named physical groups (Gmsh MSH 2.2 ASCII)"),
 }
 
 FORMATS = tuple(TABLE)

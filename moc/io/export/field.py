@@ -91,3 +91,20 @@ def xml_caution(path, ctx, what):
         text = comment + text
     with open(path, "w", encoding="utf-8", newline="") as fh:
         fh.write(text)
+
+
+def msh_caution(path, ctx, what):
+    """Insert the header lines as a $Comments section after $EndMeshFormat of a written Gmsh file.
+
+    Gmsh and meshio skip sections they do not know (Gmsh reference manual, MSH file format; from memory).
+    """
+    raw = open(path, "rb").read()
+    mark = b"$EndMeshFormat\n"
+    k = raw.find(mark)
+    if k < 0:
+        return
+    lines = "".join(f"{ln}\n" for ln in ctx.header_lines(what) if not ln.startswith("$"))
+    block = b"$Comments\n" + lines.encode("utf-8") + b"$EndComments\n"
+    k += len(mark)
+    with open(path, "wb") as fh:
+        fh.write(raw[:k] + block + raw[k:])

@@ -1,4 +1,6 @@
-"""The CFD domain mesh in Gmsh format (format "mesh-msh", MSH 2.2 binary via meshio).
+"""The CFD domain mesh in Gmsh format (format "mesh-msh", MSH 2.2 ASCII via meshio).
+
+ASCII MSH 2.2 is the variant most mesh converters of CFD codes read.
 
 Physical groups: "fluid" (dimension 2, all quadrilaterals) and one
 dimension-1 group per boundary (inlet, outlet, wall, axis or symmetry,
@@ -6,6 +8,8 @@ farfield), named through the $PhysicalNames section.
 """
 
 import numpy as np
+
+from moc.io.export.field import msh_caution
 
 
 def write(path, ctx):
@@ -22,5 +26,6 @@ def write(path, ctx):
         field[name] = np.array([k, 1])
     m = meshio.Mesh(pts, cells, cell_data={"gmsh:physical": phys, "gmsh:geometrical": [p.copy() for p in phys]},
                     field_data=field)
-    meshio.write(path, m, file_format="gmsh22", binary=True)
+    meshio.write(path, m, file_format="gmsh22", binary=False)
+    msh_caution(path, ctx, "CFD domain mesh")
     ctx.note(f"domain.msh: physical groups {', '.join(field)}")

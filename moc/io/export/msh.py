@@ -7,7 +7,7 @@ in Gmsh and meshio.  Physical group "flowfield" (dimension 2) holds all cells.
 
 import numpy as np
 
-from moc.io.export.field import mesh_2d
+from moc.io.export.field import mesh_2d, msh_caution
 
 
 def write(path, ctx):
@@ -18,4 +18,5 @@ def write(path, ctx):
     mesh.cell_data = {"gmsh:physical": tags, "gmsh:geometrical": [t.copy() for t in tags]}
     mesh.field_data = {"flowfield": np.array([1, 2])}
     meshio.write(path, mesh, file_format="gmsh22", binary=True)
+    msh_caution(path, ctx, "flowfield")
     ctx.note(f"flowfield.msh: {len(mesh.points)} points, {sum(len(c.data) for c in mesh.cells)} cells")

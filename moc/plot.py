@@ -32,7 +32,7 @@ from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.ticker import FuncFormatter, MaxNLocator  # noqa: E402
 from matplotlib.tri import Triangulation  # noqa: E402
 
-from moc.errors import ComputationError, ExportError, InputError  # noqa: E402
+from moc.errors import ExportError, InputError  # noqa: E402
 from moc.io.atomic import atomic_path  # noqa: E402
 
 # -- palette (colour-blind safe, distinct in grey-scale through style too) ----
@@ -75,6 +75,18 @@ _MAX_LINES = 80  # per family, so that very fine nets stay legible
 
 
 # -- helpers -------------------------------------------------------------------
+def number(mapping, key):
+    """mapping[key] as a finite float, or None when absent, null, not a number, NaN or infinite."""
+    v = mapping.get(key) if isinstance(mapping, dict) else None
+    if v is None or isinstance(v, (bool, dict, list, str)):
+        return None
+    try:
+        f = float(v)
+    except (TypeError, ValueError):
+        return None
+    return f if np.isfinite(f) else None
+
+
 def _geometry(result):
     return str(result.summary.get("geometry", result.inputs.get("geometry", "planar")))
 
@@ -172,10 +184,11 @@ def _finish_xy(ax, result, title):
 def _title(result, what):
     s = result.summary
     bits = [what]
-    if "exit_mach" in s:
-        bits.append(f"exit M = {float(s['exit_mach']):.4g}")
-    if "gamma" in s:
-        bits.append(f"gamma = {float(s['gamma']):.4g}")
+    me, g = number(s, "exit_mach"), number(s, "gamma")
+    if me is not None:
+        bits.append(f"exit M = {me:.4g}")
+    if g is not None:
+        bits.append(f"gamma = {g:.4g}")
     bits.append(_geometry(result))
     return ", ".join(bits)
 
@@ -206,36 +219,45 @@ def plot_net(result, ax=None, max_lines=_MAX_LINES):
 def triangulation(result):
     """Triangles of the net: each quad cell split in two; repeated indices give triangles.
 
-    Cells with zero area are dropped.  Without cells, a Delaunay triangulation
-    of the points is used, with triangles much longer than the typical edge
-    masked so that concave outlines are not filled across.
+    Only points with finite x, y and Mach number are used; cells touching any
+    other point, and cells of zero area, are dropped.  The returned
+    Triangulation carries `point_index`, the net index of each of its points.
+    Without cells, a Delaunay triangulation of the points is used, with
+    triangles much longer than the typical edge masked so that concave
+    outlines are not filled across.
     """
     net = result.net
     scale, _, _ = length_scale(result)
-    x, y = net.x * scale, net.y * scale
-    tris = []
+    good = np.isfinite(net.x) & np.isfinite(net.y) & np.isfinite(net.mach)
+    keep = np.flatnonzero(good)
+    if keep.size < 3:
+        raise InputError("the net has fewer than three points with finite values; no Mach field can be drawn.")
+    new = -np.ones(net.size, dtype=np.int64)
+    new[keep] = np.arange(keep.size)
+    x, y = net.x[keep] * scale, net.y[keep] * scale
     c = net.cells
+    t = np.zeros((0, 3), dtype=np.int64)
     if c.size:
-        for a, b, d in ((0, 1, 2), (0, 2, 3)):
-            tris.append(c[:, [a, b, d]])
-        t = np.vstack(tris)
-        distinct = (t[:, 0] != t[:, 1]) & (t[:, 1] != t[:, 2]) & (t[:, 0] != t[:, 2])
-        t = t[distinct]
+        c = c[np.all((c >= 0) & (c < net.size), axis=1)]
+        c = new[c]
+        t = np.vstack([c[:, [0, 1, 2]], c[:, [0, 2, 3]]])
+        t = t[np.all(t >= 0, axis=1)]
+        t = t[(t[:, 0] != t[:, 1]) & (t[:, 1] != t[:, 2]) & (t[:, 0] != t[:, 2])]
         area = 0.5 * ((x[t[:, 1]] - x[t[:, 0]]) * (y[t[:, 2]] - y[t[:, 0]])
                       - (x[t[:, 2]] - x[t[:, 0]]) * (y[t[:, 1]] - y[t[:, 0]]))
-        t = t[np.abs(area) > 1e-14 * max(1.0, float(np.ptp(x) * np.ptp(y)))]
+        big = max(1.0, float(np.ptp(x) * np.ptp(y)))
+        t = t[np.abs(area) > 1e-14 * big]
+        area = area[np.abs(area) > 1e-14 * big]
         # matplotlib wants counter-clockwise triangles
-        area = 0.5 * ((x[t[:, 1]] - x[t[:, 0]]) * (y[t[:, 2]] - y[t[:, 0]])
-                      - (x[t[:, 2]] - x[t[:, 0]]) * (y[t[:, 1]] - y[t[:, 0]]))
         t = np.where((area < 0)[:, None], t[:, [0, 2, 1]], t)
-        if len(t):
-            return Triangulation(x, y, t)
-    if x.size < 3:
-        raise InputError("the net has fewer than three points; no Mach field can be drawn.")
-    tri = Triangulation(x, y)
-    e = np.hypot(np.diff(x[tri.triangles][:, [0, 1, 2, 0]], axis=1),
-                 np.diff(y[tri.triangles][:, [0, 1, 2, 0]], axis=1)).max(axis=1)
-    tri.set_mask(e > 5.0 * np.median(e))
+    if len(t):
+        tri = Triangulation(x, y, t)
+    else:
+        tri = Triangulation(x, y)
+        e = np.hypot(np.diff(x[tri.triangles][:, [0, 1, 2, 0]], axis=1),
+                     np.diff(y[tri.triangles][:, [0, 1, 2, 0]], axis=1)).max(axis=1)
+        tri.set_mask(e > 5.0 * np.median(e))
+    tri.point_index = keep
     return tri
 
 
@@ -243,10 +265,8 @@ def plot_mach_field(result, ax=None, levels=24, show_net=True):
     """Filled Mach-number contours on the triangulated net, with a labelled colour bar."""
     fig, ax = _new_axes(ax, SIZES["mach"])
     net = result.net
-    m = net.mach
-    if not np.all(np.isfinite(m)):
-        raise ComputationError("the net holds non-finite Mach numbers; the saved result is damaged.")
     tri = triangulation(result)
+    m = net.mach[tri.point_index]
     lo, hi = float(m.min()), float(m.max())
     if hi - lo < 1e-9:
         hi = lo + 1e-6
@@ -331,12 +351,13 @@ def plot_wall(result, ax=None):
     ax.plot([X[-1], X[-1]], [ylen, 0], color=INK, linewidth=0.5)
     s = result.summary
     notes = []
-    if "area_ratio" in s:
-        notes.append(f"exit area ratio A/A* = {float(s['area_ratio']):.5g}")
-    if s.get("corner_angle_deg") is not None:
-        notes.append(f"corner angle = {float(s['corner_angle_deg']):.4g} deg")
-    if s.get("max_wall_angle_deg") is not None:
-        notes.append(f"max wall angle = {float(s['max_wall_angle_deg']):.4g} deg")
+    for key, text, f in (("area_ratio", "exit area ratio A/A* = {:.5g}", 1),
+                         ("corner_angle_deg", "corner angle = {:.4g} deg", 1),
+                         ("inflection_angle_deg", "inflection angle = {:.4g} deg", 1),
+                         ("max_wall_angle_deg", "max wall angle = {:.4g} deg", 1)):
+        v = number(s, key)
+        if v is not None:
+            notes.append(text.format(v * f))
     if not real:
         notes.append("lengths in throat units (no throat size given)")
     if notes:
@@ -361,10 +382,11 @@ def _p_over_p0(mach, gamma, p0_ratio=None):
 
 
 def _gamma(result):
-    g = result.summary.get("gamma", result.inputs.get("gamma", 1.4))
-    if isinstance(g, dict):
-        g = g.get("value", 1.4)
-    return float(g)
+    for src in (result.summary, result.inputs, (result.inputs or {}).get("gas")):
+        g = number(src, "gamma")
+        if g is not None and g > 1.0:
+            return g
+    return 1.4
 
 
 def _sparse_log_label(v, _pos=None):
@@ -403,10 +425,10 @@ def plot_distributions(result, fig=None):
         drawn = True
     if not drawn:
         raise InputError("the result has neither wall nor centreline Mach numbers to plot.")
-    me = result.summary.get("exit_mach")
+    me = number(result.summary, "exit_mach")
     if me is not None:
-        ax1.axhline(float(me), color=ACCENT2, linestyle=":", linewidth=1.2, label=f"design exit M = {float(me):.4g}")
-        ax2.axhline(float(_p_over_p0(np.array([float(me)]), g)[0]), color=ACCENT2, linestyle=":", linewidth=1.2,
+        ax1.axhline(me, color=ACCENT2, linestyle=":", linewidth=1.2, label=f"design exit M = {me:.4g}")
+        ax2.axhline(float(_p_over_p0(np.array([me]), g)[0]), color=ACCENT2, linestyle=":", linewidth=1.2,
                     label="isentropic p/p0 at exit M")
     for sh in result.shocks:
         sx = _arr(sh, "x")
@@ -438,9 +460,9 @@ def plot_exit(result, fig=None):
     Y = ey[order] * scale
     ax1.plot(em[order], Y, color=CPLUS, linestyle="-", marker="o", markersize=3,
              markevery=max(1, ey.size // 20), label="computed")
-    me = result.summary.get("exit_mach")
+    me = number(result.summary, "exit_mach")
     if me is not None:
-        ax1.axvline(float(me), color=ACCENT2, linestyle=":", linewidth=1.4, label=f"design M = {float(me):.4g}")
+        ax1.axvline(me, color=ACCENT2, linestyle=":", linewidth=1.4, label=f"design M = {me:.4g}")
     ax1.set_xlabel("Mach number M")
     ax1.set_ylabel(_len_label(result, _radial_name(result)))
     if et.size == ey.size:
@@ -453,23 +475,26 @@ def plot_exit(result, fig=None):
         a.grid(True, color="#d9d9d9", linewidth=0.5)
         a.legend(fontsize=8, framealpha=0.9)
         a.ticklabel_format(axis="x", useOffset=False)
-    dev = result.summary.get("exit_mach_max_dev")
-    extra = f" (max |M - Me| = {float(dev):.3g})" if dev is not None else ""
+    dev = number(result.summary, "exit_mach_max_dev")
+    extra = f" (max |M - Me| = {dev:.3g})" if dev is not None else ""
     fig.suptitle(_title(result, "Exit profile") + extra, x=0.01, ha="left", fontsize=11)
     return fig
 
 
 def coalescence_point(summary):
     """(x, y) of the characteristic coalescence point from a summary, or None."""
+    if not isinstance(summary, dict):
+        return None
     for key in ("coalescence", "coalescence_point"):
         v = summary.get(key)
-        if isinstance(v, dict) and "x" in v and "y" in v:
-            return float(v["x"]), float(v["y"])
         if isinstance(v, (list, tuple)) and len(v) == 2:
-            return float(v[0]), float(v[1])
-    if "coalescence_x" in summary and "coalescence_y" in summary:
-        return float(summary["coalescence_x"]), float(summary["coalescence_y"])
-    return None
+            v = {"x": v[0], "y": v[1]}
+        if isinstance(v, dict):
+            x, y = number(v, "x"), number(v, "y")
+            if x is not None and y is not None:
+                return x, y
+    x, y = number(summary, "coalescence_x"), number(summary, "coalescence_y")
+    return (x, y) if x is not None and y is not None else None
 
 
 def plot_shocks(result, ax=None):
@@ -499,9 +524,11 @@ def plot_shocks(result, ax=None):
                             bbox=dict(boxstyle="round,pad=0.2", facecolor="white", edgecolor="none", alpha=0.85))
             n += 1
     if n == 0:
-        for k, sh in enumerate(result.summary.get("shocks") or []):
-            if isinstance(sh, dict) and all(q in sh for q in ("start_x", "start_y", "end_x", "end_y")):
-                ax.plot([sh["start_x"] * scale, sh["end_x"] * scale], [sh["start_y"] * scale, sh["end_y"] * scale],
+        listed = result.summary.get("shocks")
+        for sh in listed if isinstance(listed, list) else []:
+            ends = [number(sh, q) for q in ("start_x", "start_y", "end_x", "end_y")]
+            if None not in ends:
+                ax.plot([ends[0] * scale, ends[2] * scale], [ends[1] * scale, ends[3] * scale],
                         zorder=6, label="shock" if n == 0 else None, **STYLE["shock"])
                 n += 1
     cp = coalescence_point(result.summary)
@@ -526,6 +553,25 @@ _PLOTTERS = {
     "exit": plot_exit,
     "shocks": plot_shocks,
 }
+
+
+def unavailable(result, name):
+    """Why the named figure cannot be drawn from this result, or None when it can."""
+    if name == "exit":
+        ey, em = _arr(result.exit, "y"), _arr(result.exit, "mach")
+        if ey.size < 2 or em.size != ey.size:
+            return "the result has no exit profile"
+    if name == "wall" and _arr(result.wall, "x").size < 2:
+        return "the result has no wall contour"
+    if name in ("net", "mach") and result.net.size < 3:
+        return "the result has no characteristic net"
+    if name == "distributions":
+        ok = [(_arr(d, "x").size > 0 and _arr(d, "x").size == _arr(d, "mach").size) for d in (result.wall, result.axis)]
+        if not any(ok):
+            return "the result has neither wall nor centreline Mach numbers"
+    if name == "shocks" and not (result.shocks or result.summary.get("shocks") or coalescence_point(result.summary)):
+        return "the result has no shock"
+    return None
 
 
 def figure_for(result, name):

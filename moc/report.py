@@ -352,7 +352,7 @@ def _verification(result, study):
     rows = []
 
     def add(label, value, tol=None, note=""):
-        if value is None:
+        if not isinstance(value, (int, float)) or isinstance(value, bool) or not math.isfinite(value):
             return
         status = ""
         if tol is not None:
@@ -490,6 +490,10 @@ def build_report(result, result_dir=None, coarse=None, recompute=True, figures=T
         '<h2 id="shocks">Shocks</h2>',
         _shock_section(result),
     ]
+    warns = s.get("warnings")
+    if isinstance(warns, list) and warns:
+        body.append('<h2 id="warnings">Warnings from the computation</h2>')
+        body.append("<ul>" + "".join(f"<li>{_e(w)}</li>" for w in warns) + "</ul>")
     if figures:
         body.append('<h2 id="figures">Figures</h2>')
         for name, uri, caption in _figures(result, dpi):

@@ -281,3 +281,21 @@ def test_plot_is_quiet_off_a_terminal(tmp_path, capsys):
     out, err = capsys.readouterr()
     assert out == "" and err == ""
     assert (d / "wall.png").stat().st_size > 1000
+
+
+def test_all_skips_what_an_analysis_cannot_draw(tmp_path, capsys):
+    # An analysis that stops before the exit stores no exit profile and null exit numbers;
+    # 'all' draws the rest and says what it skipped; naming 'exit' explicitly is an error.
+    from moc.cli import main
+
+    r = source_flow_result(shocks=True)
+    r.exit = {}
+    r.summary.update(exit_mach=None, exit_mach_max_dev=None, thrust_coefficient_vacuum=None)
+    d = _save_dir(tmp_path, r)
+    assert main(["plot", str(d), "--what", "all", "--dpi", "30", "--json"]) == 0
+    got = json.loads(capsys.readouterr().out)
+    assert sorted(Path_(p).name for p in got["files"]) == sorted(
+        f"{n}.png" for n in ["net", "mach", "wall", "distributions", "shocks"])
+    assert got["skipped"] == ["exit: not drawn, the result has no exit profile"]
+    assert main(["plot", str(d), "--what", "exit"]) == 2
+    assert "no exit profile" in capsys.readouterr().err

@@ -25,31 +25,32 @@ def add_arguments(p):
 
 
 def parse_what(text, result=None):
-    """Turn '--what' text into figure names (in the canonical order)."""
+    """Turn '--what' text into (figure names in the canonical order, skipped [(name, reason)]).
+
+    'all' means every figure the result can draw; the others are skipped
+    with their reason.  A figure named explicitly is always attempted.
+    """
     from moc.errors import InputError
-    from moc.plot import FIGURES
+    from moc.plot import FIGURES, unavailable
 
     names = [w.strip().lower() for w in str(text).split(",") if w.strip()]
     if not names:
         raise InputError("--what is empty; give figure names such as net,wall or all.")
-    chosen = []
+    chosen, skipped = [], []
     for w in names:
         if w == "all":
             for f in FIGURES:
-                if f == "shocks" and result is not None and not _has_shocks(result):
-                    continue
-                chosen.append(f)
+                why = unavailable(result, f) if result is not None else None
+                if why:
+                    skipped.append((f, why))
+                else:
+                    chosen.append(f)
         elif w in FIGURES:
             chosen.append(w)
         else:
             raise InputError(f"unknown figure {w!r} in --what; choose from {', '.join(FIGURES)} or all.")
-    return [f for f in FIGURES if f in chosen]
-
-
-def _has_shocks(result):
-    from moc.plot import coalescence_point
-
-    return bool(result.shocks) or bool(result.summary.get("shocks")) or coalescence_point(result.summary) is not None
+    skipped = [(f, why) for f, why in skipped if f not in chosen]
+    return [f for f in FIGURES if f in chosen], skipped
 
 
 def run(args):
@@ -62,7 +63,7 @@ def run(args):
     from moc.result import Result
 
     result = Result.load(args.result_dir)
-    names = parse_what(args.what, result)
+    names, skipped = parse_what(args.what, result)
     outdir = Path(args.output) if args.output else Path(args.result_dir)
     if outdir.exists() and not outdir.is_dir():
         from moc.errors import InputError
@@ -79,9 +80,12 @@ def run(args):
         written.append(str(plot.save_figure(fig, path, force=args.force, dpi=args.dpi)))
     if show:
         print(file=sys.stderr)
+    notes = [f"{n}: not drawn, {why}" for n, why in skipped]
     if args.json:
-        print_json({"files": written})
+        print_json({"files": written, "skipped": notes})
     elif not args.quiet:
         for w in written:
             print(w)
+        for note in notes:
+            print(f"  ({note})")
     return 0

@@ -50,6 +50,7 @@ _KEY_NUMBERS = [
     ("exit_mach", "design exit Mach number", ""),
     ("exit_mach_mean", "mean exit Mach number (computed)", ""),
     ("exit_mach_max_dev", "largest exit Mach-number deviation", ""),
+    ("exit_mach_spread", "exit Mach-number spread (max - min)", ""),
     ("area_ratio", "exit area ratio A/A*", ""),
     ("area_ratio_isentropic", "isentropic A/A* at the exit Mach number", ""),
     ("length", "length, throat to exit", "throat units"),
@@ -58,13 +59,19 @@ _KEY_NUMBERS = [
     ("exit_size_real", "exit size (radius or half-height)", "@unit"),
     ("corner_angle_deg", "throat corner angle", "deg"),
     ("inflection_angle_deg", "inflection (largest) wall angle", "deg"),
+    ("inflection_deg", "inflection (largest) wall angle", "deg"),
+    ("throat_curvature", "throat wall radius of curvature / throat size", ""),
     ("max_wall_angle_deg", "largest wall angle", "deg"),
     ("exit_flow_angle_max_deg", "largest exit flow angle", "deg"),
     ("discharge_coefficient", "discharge coefficient Cd", ""),
     ("thrust_coefficient", "thrust coefficient C_F (at the given ambient)", ""),
     ("thrust_coefficient_vacuum", "vacuum thrust coefficient", ""),
     ("thrust_coefficient_ideal_1d", "ideal one-dimensional vacuum thrust coefficient", ""),
+    ("thrust_coefficient_ideal_1d_ambient", "ideal one-dimensional thrust coefficient at the given ambient", ""),
+    ("thrust_ratio_to_ideal", "thrust over the ideal one-dimensional value", ""),
     ("divergence_efficiency", "divergence efficiency", ""),
+    ("mass_flow_parameter", "mass-flow parameter mdot sqrt(R T0) / (p0 A*)", ""),
+    ("wetted_area", "wetted wall area", "throat units"),
     ("mass_flow_kg_s", "mass flow at the given chamber state", "kg/s"),
     ("thrust_N", "thrust at the given chamber and ambient state", "N"),
     ("thrust_vacuum_N", "vacuum thrust at the given chamber state", "N"),
@@ -166,9 +173,11 @@ def _quantities(result):
         v = s.get(k)
         if isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v):
             q[k] = float(v)
-    m = _exit_mach_mean(result)
+    m = s.get("exit_mach_mean")
+    if not (isinstance(m, (int, float)) and not isinstance(m, bool) and math.isfinite(m)):
+        m = _exit_mach_mean(result)
     if m is not None:
-        q["exit_mach_mean"] = m
+        q["exit_mach_mean"] = float(m)
     return q
 
 

@@ -115,7 +115,9 @@ def test_xdmf_reads_back(tmp_path):
 
 
 def _signed_volumes(points, kind, cells):
-    """Signed volumes by tetrahedra, VTK node order (VTK User's Guide linear cells; checked on unit cells below)."""
+    """Signed volumes by tetrahedra in meshio's node order (hexahedron and pyramid bases counter-clockwise about
+    the direction to the opposite face or apex, the wedge base clockwise; checked on unit cells below, and the
+    written files against VTK itself in test_export_vtk.py)."""
     tets = {
         "tetra": [(0, 1, 2, 3)],
         "pyramid": [(0, 1, 2, 4), (0, 2, 3, 4)],
@@ -132,7 +134,7 @@ def _signed_volumes(points, kind, cells):
 def test_tet_splits_match_vtk_unit_cells():
     cube = np.array([[0, 0, 0], [1, 0, 0], [1, 1, 0], [0, 1, 0], [0, 0, 1], [1, 0, 1], [1, 1, 1], [0, 1, 1]], float)
     assert _signed_volumes(cube, "hexahedron", np.arange(8)[None])[0] == pytest.approx(1.0)
-    # VTK wedge: base (0,1,2) normal points away from (3,4,5)
+    # meshio wedge: base (0,1,2) normal points away from (3,4,5)
     wedge = np.array([[0, 0, 0], [0, 1, 0], [1, 0, 0], [0, 0, 1], [0, 1, 1], [1, 0, 1]], float)
     assert _signed_volumes(wedge, "wedge", np.arange(6)[None])[0] == pytest.approx(0.5)
     # VTK pyramid: base normal points to the apex

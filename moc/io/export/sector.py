@@ -4,11 +4,15 @@ The 2-D net (x, r) is turned about the x axis through `sector_angle`
 degrees in `sector_segments` steps: (x, r) -> (x, r cos a, r sin a).  Cells
 off the axis become hexahedra (quads) or wedges (triangles); cells touching
 the axis are split into triangles, which become wedges, pyramids or
-tetrahedra as one, two... of their points lie on the axis (points on the
-axis are not repeated).  Node order follows the VTK cell conventions
-(VTK User's Guide, linear cell types; checked per cell by the sign of its
-volume and reordered if needed).  The velocity vector is turned with the
-cell, so it stays tangent to the meridian plane.
+tetrahedra as none, one or two of their points lie on the axis (points on
+the axis are not repeated).  Cells are handed to meshio in meshio's node order,
+checked per cell by the sign of its volume and reordered if needed: the
+hexahedron's base 0-3 and the pyramid's base turn counter-clockwise about
+the direction to the opposite face or apex; the wedge's base 0-2 turns the
+other way, and meshio permutes wedges to VTK's order on writing.  Measured
+with VTK 9.7 on the written files: every cell has a positive volume in
+vtkMeshQuality and VTK's face lists point out of every cell.  The velocity
+vector is turned with the cell, so it stays tangent to the meridian plane.
 """
 
 import numpy as np
@@ -49,7 +53,7 @@ def _orient(kind, cells, pts):
         n = np.cross(p[:, 2] - p[:, 0], p[:, 3] - p[:, 1])
         sgn = np.einsum("ij,ij->i", n, p[:, 4:].mean(1) - p[:, :4].mean(1))
         flip = [0, 3, 2, 1, 4, 7, 6, 5]
-    elif kind == "wedge":  # VTK: the base (0,1,2) normal points away from (3,4,5)
+    elif kind == "wedge":  # meshio's order: the base (0,1,2) normal points away from (3,4,5)
         n = np.cross(p[:, 1] - p[:, 0], p[:, 2] - p[:, 0])
         sgn = -np.einsum("ij,ij->i", n, p[:, 3:].mean(1) - p[:, :3].mean(1))
         flip = [0, 2, 1, 3, 5, 4]

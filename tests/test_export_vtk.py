@@ -1,0 +1,60 @@
+"""VTU files read by VTK itself (optional: runs where the vtk package is installed, `pip install vtk`).
+
+VTK's own mesh-quality volumes must be positive for every cell of the
+revolved sector, every cell face must face out of its cell (VTK's face
+lists), and the cells must fill the revolved region: angle * ybar * A
+(Pappus's centroid theorem), to the facet error.
+"""
+
+import math
+
+import numpy as np
+import pytest
+
+from moc.io.export import export
+from test_export_common import ALPHA, THROAT_MM, source_flow_result
+
+vtk = pytest.importorskip("vtk")
+from vtk.util.numpy_support import vtk_to_numpy  # noqa: E402
+
+
+def read(path):
+    r = vtk.vtkXMLUnstructuredGridReader()
+    r.SetFileName(str(path))
+    r.Update()
+    return r.GetOutput()
+
+
+def test_vtk_reads_the_sector_with_positive_outward_cells(tmp_path):
+    res = source_flow_result()
+    angle, segs = 90.0, 48
+    export(res, ["sector-vtu", "vtu"], tmp_path, units="mm",
+           options={"sector_angle": angle, "sector_segments": segs})
+    g = read(tmp_path / "flowfield_sector.vtu")
+    q = vtk.vtkMeshQuality()
+    q.SetInputData(g)
+    q.SetHexQualityMeasureToVolume()
+    q.SetWedgeQualityMeasureToVolume()
+    q.SetPyramidQualityMeasureToVolume()
+    q.SetTetQualityMeasureToVolume()
+    q.Update()
+    vol = vtk_to_numpy(q.GetOutput().GetCellData().GetArray("Quality"))
+    types = set(vtk_to_numpy(g.GetCellTypesArray()).tolist())
+    assert types == {vtk.VTK_HEXAHEDRON, vtk.VTK_WEDGE, vtk.VTK_PYRAMID, vtk.VTK_TETRA}
+    assert vol.min() > 0
+    rho_s = THROAT_MM / math.sin(ALPHA)
+    exact = math.radians(angle) * ((3.0 * rho_s) ** 3 - rho_s ** 3) / 3.0 * (1.0 - math.cos(ALPHA))
+    assert vol.sum() == pytest.approx(exact, rel=2e-3)
+    pts = vtk_to_numpy(g.GetPoints().GetData())
+    for k in range(0, g.GetNumberOfCells(), 37):  # a sample of cells of every kind
+        cell = g.GetCell(k)
+        centre = pts[[cell.GetPointId(i) for i in range(cell.GetNumberOfPoints())]].mean(0)
+        for f in range(cell.GetNumberOfFaces()):
+            face = cell.GetFace(f)
+            p = pts[[face.GetPointId(i) for i in range(face.GetNumberOfPoints())]]
+            n = np.cross(p[1] - p[0], p[2] - p[0])
+            assert np.dot(n, p.mean(0) - centre) > 0
+    flat = read(tmp_path / "flowfield.vtu")
+    mach = vtk_to_numpy(flat.GetPointData().GetArray("mach"))
+    assert np.allclose(mach, res.net.mach, rtol=1e-12)
+    assert "CAUTION" in open(tmp_path / "flowfield.vtu", encoding="utf-8").read(2000)

@@ -71,7 +71,7 @@ _KEY_NUMBERS = [
     ("thrust_ratio_to_ideal", "thrust over the ideal one-dimensional value", ""),
     ("divergence_efficiency", "divergence efficiency", ""),
     ("mass_flow_parameter", "mass-flow parameter mdot sqrt(R T0) / (p0 A*)", ""),
-    ("wetted_area", "wetted wall area", "throat units"),
+    ("wetted_area", "wetted wall area", "(throat size)^2"),
     ("mass_flow_kg_s", "mass flow at the given chamber state", "kg/s"),
     ("thrust_N", "thrust at the given chamber and ambient state", "N"),
     ("thrust_vacuum_N", "vacuum thrust at the given chamber state", "N"),

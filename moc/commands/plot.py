@@ -13,7 +13,7 @@ def add_arguments(p):
     p.add_argument("result_dir", metavar="RESULT_DIR", help="directory written by 'moc design' or 'moc analyze'")
     p.add_argument("--what", "-w", default="all",
                    help="comma-separated figures: net, mach, wall, distributions, exit, shocks, or all "
-                        "(default all; 'all' skips shocks when the result has none)")
+                        "(default all; 'all' leaves out what the result cannot draw, e.g. shocks when it has none)")
     p.add_argument("--format", "-f", dest="fmt", default="png", choices=["png", "svg", "pdf"],
                    help="image format (default png)")
     p.add_argument("-o", "--output", metavar="DIR", default=None,

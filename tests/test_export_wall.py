@@ -163,3 +163,15 @@ def test_planar_stl_is_the_extruded_channel(tmp_path):
     L, y2 = res.wall["x"][-1], res.wall["y"][-1]
     exact = 2.0 * width * (arc + 0.5 * L * (1.0 + y2)) * THROAT_MM ** 2
     assert volume(tri) == pytest.approx(exact, rel=1e-3)
+
+
+@pytest.mark.parametrize("geometry", ["axisymmetric", "planar"])
+def test_stl_is_a_valid_volume_for_trimesh(tmp_path, geometry):
+    """Optional independent check with the trimesh library (runs where it is installed, `pip install trimesh`)."""
+    trimesh = pytest.importorskip("trimesh")
+    res = source_flow_result(geometry)
+    write("stl", tmp_path / "w.stl", res, units="mm")
+    mesh = trimesh.load(tmp_path / "w.stl")
+    assert mesh.is_watertight and mesh.is_winding_consistent and mesh.is_volume
+    _, _, tri = read_binary_stl(tmp_path / "w.stl")
+    assert mesh.volume == pytest.approx(volume(tri), rel=1e-9) and mesh.volume > 0

@@ -1,0 +1,337 @@
+"""Analyse a given wall contour: march, find coalescence, fit the shock, report.
+
+`analyze(wall, ...)` returns a `moc.result.Result` of kind "analysis" whose
+summary holds the public keys (shock_free, shocks, exit_mach, ...; see
+docs/analysis.md).
+"""
+
+from __future__ import annotations
+
+import math
+import time
+
+import numpy as np
+
+from moc.analysis import exitflow
+from moc.analysis.coalescence import first_crossing, unfolded_cells
+from moc.analysis.march import march
+from moc.analysis.shockfit import UpstreamField, fit_shock
+from moc.errors import InputError
+from moc.flow import oblique_shock, prandtl_meyer, shock_angle
+from moc.flow._checks import check_gamma
+from moc.net import rotational as rp
+from moc.result import Net, Result
+
+CAUTION = ("CAUTION: nozzles, rocket motors and pressurised tunnels can injure or kill. This is an inviscid "
+           "analysis; it does not replace local codes, standards and review by a licensed engineer.")
+
+KEYS = rp.KEYS
+
+
+def _boundary_x(front0, shock, end):
+    """x of the upstream edge of the region behind the shock, as a function of y."""
+    fy, fx = front0["y"], front0["x"]
+    o = np.argsort(fy)
+    fy, fx = fy[o], fx[o]
+    sx, sy = shock["x"], shock["y"]
+    ye = end[1] if end is not None else (sy[-1] if sy.size else fy[0])
+    xe = end[0] if end is not None else (sx[-1] if sx.size else fx[0])
+
+    def xb(y):
+        y = np.asarray(y, float)
+        out = np.full(y.shape, np.inf)
+        top = y >= fy[0]
+        out[top] = np.interp(y[top], fy, fx, right=fx[-1])
+        if sx.size >= 2:
+            so = np.argsort(sy)
+            mid = (y < fy[0]) & (y >= ye)
+            out[mid] = np.interp(y[mid], sy[so], sx[so])
+            low = y < min(ye, sy.min())
+            out[low] = xe
+        else:
+            out[y < fy[0]] = xe
+        return out
+
+    return xb
+
+
+def _downstream_of_cplus(D, pvalid, R, end):
+    """Points downstream of the region-1 C+ characteristic that starts on the axis just upstream of `end`."""
+    xe, ye = end
+    ax = D["x"][:R, 0]
+    cand = np.flatnonzero(np.isfinite(ax) & (ax <= xe))
+    if cand.size == 0:
+        return np.zeros_like(pvalid)
+    a0 = int(cand[np.argmax(ax[cand])])
+    W = D["x"].shape[1] - 1
+    aa = np.arange(a0, min(a0 + W + 1, R))
+    dd = aa - a0
+    lx, ly = D["x"][aa, dd], D["y"][aa, dd]
+    good = np.isfinite(lx) & pvalid[aa, dd]
+    if not np.any(good):
+        return D["x"][:R] > xe
+    last = np.flatnonzero(~good)
+    n_ok = int(last[0]) if last.size else lx.size
+    lx, ly = lx[:max(n_ok, 1)], ly[:max(n_ok, 1)]
+    X, Y = D["x"][:R], D["y"][:R]
+    xc = np.interp(Y, ly, lx, right=lx[-1])
+    return X > xc + 1e-12
+
+
+def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=None, step_factor=1.0,
+            initial=None, name="contour", throat_solution="hall"):
+    """Analyse the flow along `wall` (a moc.analysis.contour.Wall); returns a Result (kind "analysis").
+
+    start: "corner" (sharp sonic throat corner at the wall start, or a rounded
+    throat when the wall has `throat_arc`: transonic start from moc.throat),
+    "uniform" (the wall in a uniform stream of Mach `mach_in`), or "line"
+    (an initial C- line `initial`, wall to axis).
+    """
+    t0 = time.perf_counter()
+    g = check_gamma(gamma)
+    if geometry not in ("planar", "axisymmetric"):
+        raise InputError(f"geometry must be 'planar' or 'axisymmetric', got {geometry!r}.")
+    delta = 1 if geometry == "axisymmetric" else 0
+    try:
+        n = int(n)
+    except (TypeError, ValueError):
+        raise InputError(f"the number of characteristics must be a whole number, got {n!r}.") from None
+    if not 6 <= n <= 1000:
+        raise InputError(f"the number of characteristics must be between 6 and 1000, got {n}.")
+    if start == "uniform":
+        if mach_in is None or not float(mach_in) > 1.0:
+            raise InputError(f"a uniform-flow start needs an upstream Mach number above 1, got {mach_in!r}.")
+    cf_start = None
+    if start == "corner" and wall.throat_arc:
+        from moc.analysis.transonic import initial_cminus, line_flux
+
+        initial = initial_cminus(float(wall.throat_arc), g, geometry, n, solution=throat_solution)
+        mflow, cf_start = line_flux(initial, g, delta)
+        net = march(wall, g, geometry, n=n, start="line", initial=initial)
+    else:
+        net = march(wall, g, geometry, n=n, start=start, mach_in=mach_in, initial=initial)
+        mflow = 1.0
+    ok = unfolded_cells(net)
+    warnings = list(net.notes)
+    x_end = wall.x_end
+    uniform = None
+    if start in ("uniform", "corner") and cf_start is None:
+        m0 = float(net.data["mach"][0, 0])
+        uniform = dict(theta=0.0, nu=float(net.data["nu"][0, 0]), mach=m0, lnp0=0.0)
+    up = UpstreamField(net, ok, uniform=uniform)
+    shocks, fits, coalescence = [], [], None
+    # --- where does a shock start? ---------------------------------------
+    th_w0 = wall.angle_start
+    start_shock = None
+    if start == "uniform" and th_w0 < -1e-12:
+        m1 = float(mach_in)
+        dfl = -th_w0
+        s = oblique_shock(m1, dfl, g)  # raises DetachedShockError with a clear sentence
+        b = float(s.beta)
+        corner = dict(x=wall.x_start, y=wall.y_start, theta=th_w0, nu=float(prandtl_meyer(float(s.m2), g)),
+                      mach=float(s.m2), lnp0=math.log(float(s.p02_p01)))
+        start_shock = dict(x=wall.x_start, y=wall.y_start, phi=-b, beta=b, theta1=0.0, m1=m1, m2=float(s.m2),
+                           p2_p1=float(s.p2_p1), p02_p01=float(s.p02_p01), lnp01=0.0, deflection=dfl)
+        front0 = {k: np.array([corner[k]]) for k in KEYS}
+        coalescence = {"x": wall.x_start, "y": wall.y_start, "family": "C-", "kind": "compression corner"}
+        y_ref = wall.y_start
+    else:
+        cr = first_crossing(net)
+        if cr is not None and cr.x <= x_end:
+            coalescence = {"x": cr.x, "y": cr.y, "family": cr.family, "kind": "crossing of characteristics",
+                           "cell_size": cr.cell_size}
+            if cr.family != "C-":
+                warnings.append(f"characteristics of the C+ family cross at x = {cr.x:.5g}, y = {cr.y:.5g}; "
+                                "a shock of that family is not tracked by this version, so the flow past it is not computed.")
+            else:
+                a, d = cr.cell
+                D = net.data
+                idx_a = np.arange(a + 1, a + 1 + (net.W - d))
+                idx_d = np.arange(d + 1, net.W + 1)
+                m = min(idx_a.size, idx_d.size)
+                idx_a, idx_d = idx_a[:m], idx_d[:m]
+                inrange = idx_a < net.rows
+                idx_a, idx_d = idx_a[inrange], idx_d[inrange]
+                corners = [(a, d), (a, d - 1)]  # on the upstream C- of the folded cell
+                st = {k: float(np.nanmean([D[k][i, j] for i, j in corners])) for k in KEYS}
+                st["x"], st["y"] = cr.x, cr.y
+                st["mach"] = float(rp.mach_of_nu(np.array([st["nu"]]), g)[0])
+                front0 = {k: np.concatenate([[st[k]], D[k][idx_a, idx_d]]) for k in KEYS}
+                fin = np.isfinite(front0["mach"])
+                front0 = {k: v[fin] for k, v in front0.items()}
+                front0["cm"] = np.concatenate([[-1], idx_a])[fin]
+                mu = math.asin(1.0 / st["mach"])
+                start_shock = dict(x=cr.x, y=cr.y, phi=st["theta"] - mu, beta=mu, theta1=st["theta"], m1=st["mach"],
+                                   m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"], deflection=0.0)
+                y_ref = float(wall.y_of(cr.x))
+    fit = None
+    if start_shock is not None:
+        step = step_factor * (y_ref / n) * min(1.0 / max(abs(math.sin(start_shock["phi"])), 1e-9), 1.5)
+        fit = fit_shock(up, wall, start_shock, front0, g, delta, step, x_end)
+        warnings += fit.warnings
+    # --- assemble the points ---------------------------------------------
+    D = net.data
+    R, W = net.rows, net.W
+    pvalid = np.zeros((R, W + 1), bool)
+    ia, idd = np.nonzero(ok)
+    for i, j in ((ia, idd), (ia + 1, idd + 1), (ia + 1, idd), (ia, idd - 1)):
+        pvalid[i, j] = True
+    pvalid[0, :] = np.isfinite(D["mach"][0])
+    pvalid &= np.isfinite(D["mach"][:R])
+    if fit is not None:
+        xb = _boundary_x(front0, fit.shock, fit.end)
+        behind = D["x"][:R] > xb(D["y"][:R]) + 1e-12
+        pvalid &= ~behind
+        if fit.fate != "exit" and fit.end is not None:
+            # beyond the end of the tracked shock: drop what lies downstream of the C+ through its end point
+            pvalid &= ~_downstream_of_cplus(D, pvalid, R, fit.end)
+    if fit is None and coalescence is not None and coalescence.get("family") != "C-":
+        pvalid &= D["x"][:R] <= coalescence["x"]
+    # region 1 arrays
+    ia1, id1 = np.nonzero(pvalid)
+    flat = {k: D[k][:R][pvalid] for k in KEYS}
+    cplus = (ia1 - id1).astype(np.int64)
+    cminus = ia1.astype(np.int64)
+    index = -np.ones((R, W + 1), np.int64)
+    index[ia1, id1] = np.arange(ia1.size)
+    cl = []
+    ca, cd = np.nonzero(ok)
+    for a_, d_ in zip(ca, cd):
+        q = [index[a_, d_], index[a_ + 1, d_ + 1], index[a_ + 1, d_], index[a_, d_ - 1]]
+        if min(q) >= 0:
+            cl.append(q)
+    parts = [flat]
+    labs_p, labs_m = [cplus], [cminus]
+    off = ia1.size
+    wall_pts = {k: D[k][:R, W][pvalid[:, W]] for k in KEYS}
+    polylines = []
+    for b in np.unique(cplus):
+        sel = np.flatnonzero(cplus == b)
+        sel = sel[np.argsort(cminus[sel])]
+        polylines.append({k: flat[k][sel] for k in KEYS})
+    if fit is not None:
+        prev_idx = None
+        for fi, F in enumerate(fit.fronts):
+            m = F["x"].size
+            parts.append({k: F[k] for k in KEYS})
+            labs_p.append(np.full(m, 10_000_000 + fi, np.int64))
+            labs_m.append(np.asarray(F.get("cm", np.arange(m) + 20_000_000 + 1000 * fi), np.int64))
+            idx = np.arange(off, off + m)
+            if fi >= 1 and prev_idx is not None:
+                org = fit.origin[fi - 1]
+                for i in range(1, m - 2):
+                    mm, mn = org[i], org[i + 1]
+                    if mm >= 0 and mn >= 0:
+                        cl.append([prev_idx[mm], prev_idx[mn], idx[i + 1], idx[i]])
+            prev_idx = idx
+            off += m
+            polylines.append({k: F[k] for k in KEYS})
+        wall_pts = {k: np.concatenate([wall_pts[k], [F[k][-1] for F in fit.fronts if F["x"].size > 1]])
+                    for k in KEYS}
+    allp = {k: np.concatenate([p[k] for p in parts]) for k in KEYS}
+    # --- performance ------------------------------------------------------
+    o = np.argsort(wall_pts["x"])
+    wall_pts = {k: v[o] for k, v in wall_pts.items()}
+    y_exit = float(wall.y_of(x_end))
+    area_ratio = y_exit**2 if delta else y_exit
+    summary = {
+        "kind": "analysis",
+        "contour": name,
+        "geometry": geometry,
+        "gamma": g,
+        "characteristics": n,
+        "start": start,
+        "area_ratio": area_ratio,
+        "length": x_end - wall.x_start,
+        "exit_y": y_exit,
+    }
+    cf = None
+    if start == "corner":
+        cf = exitflow.wall_thrust(wall_pts["x"], wall_pts["y"], wall_pts["mach"], wall_pts["lnp0"], x_end, g, delta,
+                                  cf_start=cf_start)
+        summary["discharge_coefficient"] = mflow
+        summary["throat"] = ("rounded, radius of curvature %g (%s start)" % (wall.throat_arc, throat_solution)
+                             if cf_start is not None else "sharp corner (sonic, centred fan)")
+        cfi, me_1d, pe_1d = exitflow.ideal_vacuum_cf(area_ratio, g)
+        summary["thrust_coefficient_ideal_1d"] = cfi
+        summary["exit_mach_ideal_1d"] = me_1d
+        if cf is not None and fit is not None and fit.fate not in ("exit", "decays", "axis"):
+            warnings.append(f"the shock march stopped early ({fit.fate}); the thrust is not reported.")
+            cf = None
+        summary["thrust_coefficient_vacuum"] = cf
+        summary["thrust_ratio_to_ideal"] = (cf / cfi) if cf is not None else None
+        if cf is None:
+            warnings.append("the wall was not computed up to the exit, so the thrust is not reported.")
+    else:
+        summary["thrust_coefficient_vacuum"] = None
+        summary["thrust_coefficient_ideal_1d"] = None
+    prof = exitflow.section(polylines, x_end)
+    ex = {}
+    if prof["y"].size >= 3:
+        mach_e = rp.mach_of_nu(prof["nu"], g)
+        ex = exitflow.exit_integrals(prof, mach_e, g, delta, y_exit)
+        summary.update(ex)
+        exit_arrays = {"y": prof["y"], "theta": prof["theta"], "mach": mach_e, "p0_ratio": np.exp(prof["lnp0"]),
+                       "p_p0": np.exp(prof["lnp0"]) * (1 + 0.5 * (g - 1) * mach_e**2) ** (-g / (g - 1))}
+    else:
+        summary.update({"exit_mach": None, "exit_mach_max_dev": None})
+        exit_arrays = {}
+        warnings.append("the exit plane was not reached by the computed flow; no exit profile.")
+    # --- shocks -------------------------------------------------------------
+    shock_list = []
+    if fit is not None and fit.shock["x"].size >= 1:
+        sh = fit.shock
+        end = fit.end if fit.end is not None else (sh["x"][-1], sh["y"][-1])
+        xs_, ys_ = sh["x"], sh["y"]
+        if fit.end is not None and fit.fate == "axis":
+            xs_, ys_ = np.append(xs_, end[0]), np.append(ys_, end[1])
+        arrays = {"x": xs_, "y": ys_}
+        for k in ("beta", "p2_p1", "p02_p01", "m1", "m2", "theta1"):
+            v = sh[k]
+            arrays[k] = np.append(v, v[-1]) if xs_.size > v.size else v
+        shocks.append(arrays)
+        entry = {
+            "start_x": float(sh["x"][0]), "start_y": float(sh["y"][0]),
+            "end_x": float(end[0]), "end_y": float(end[1]),
+            "max_pressure_ratio": float(np.max(sh["p2_p1"])) if sh["p2_p1"].size else 1.0,
+            "total_pressure_ratio": float(np.min(sh["p02_p01"])) if sh["p02_p01"].size else 1.0,
+            "family": "C-",
+            "fate": fit.fate,
+            "fate_detail": fit.fate_detail,
+            "beta_start_deg": float(np.degrees(sh["beta"][0])) if sh["beta"].size else None,
+            "beta_end_deg": float(np.degrees(sh["beta"][-1])) if sh["beta"].size else None,
+            "points": int(sh["x"].size),
+        }
+        if fit.reflection is not None:
+            entry["reflection"] = fit.reflection
+        shock_list.append(entry)
+    if fit is not None and delta == 1:
+        warnings.append("shock fitting in axisymmetric flow is not yet validated against a published case: "
+                        "treat the shock path and strength as indicative.")
+    complete = fit is None or fit.fate == "exit"
+    if coalescence is not None and coalescence.get("family") != "C-":
+        complete = False
+    summary.update({
+        "shock_free": coalescence is None,
+        "shocks": shock_list,
+        "coalescence": coalescence,
+        "march_complete": bool(complete),
+        "points": int(allp["x"].size),
+        "min_total_pressure_ratio": float(np.nanmin(np.exp(allp["lnp0"]))),
+        "warnings": warnings,
+        "caution": CAUTION,
+        "seconds": round(time.perf_counter() - t0, 3),
+    })
+    net_out = Net(x=allp["x"], y=allp["y"], theta=allp["theta"], mach=allp["mach"],
+                  cplus=np.concatenate(labs_p), cminus=np.concatenate(labs_m),
+                  cells=np.asarray(cl, np.int64).reshape(-1, 4), p0_ratio=np.exp(allp["lnp0"]))
+    wall_out = {"x": wall_pts["x"], "y": wall_pts["y"], "theta": wall_pts["theta"], "mach": wall_pts["mach"],
+                "p_p0": np.exp(wall_pts["lnp0"]) * (1 + 0.5 * (g - 1) * wall_pts["mach"] ** 2) ** (-g / (g - 1))}
+    ax = allp["y"] <= 1e-12
+    o = np.argsort(allp["x"][ax])
+    axis_out = {"x": allp["x"][ax][o], "mach": allp["mach"][ax][o],
+                "p_p0": (np.exp(allp["lnp0"][ax]) * (1 + 0.5 * (g - 1) * allp["mach"][ax] ** 2) ** (-g / (g - 1)))[o]}
+    inputs = {"geometry": geometry, "gamma": g, "characteristics": n, "start": start, "mach_in": mach_in,
+              "contour": name, "step_factor": step_factor}
+    return Result(kind="analysis", inputs=inputs, summary=summary, net=net_out, wall=wall_out, axis=axis_out,
+                  exit=exit_arrays, shocks=shocks)

@@ -25,6 +25,8 @@ def test_dxf_reads_back_with_units_layers_and_points(tmp_path, unit, code):
     write("dxf", tmp_path / "w.dxf", res, units=unit)
     _, _, data = _profile(tmp_path, res, units=unit)
     doc = ezdxf.readfile(tmp_path / "w.dxf")
+    auditor = doc.audit()  # ezdxf's structural checker of the DXF (entities, layers, linetypes, handles)
+    assert not auditor.has_errors and not auditor.has_fixes
     # Source: Autodesk DXF Reference (R2000): AC1015 is the R2000 version string; $INSUNITS 1 in, 4 mm, 6 m.
     assert doc.dxfversion == "AC1015"
     assert doc.header["$INSUNITS"] == code

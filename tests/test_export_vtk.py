@@ -58,3 +58,23 @@ def test_vtk_reads_the_sector_with_positive_outward_cells(tmp_path):
     mach = vtk_to_numpy(flat.GetPointData().GetArray("mach"))
     assert np.allclose(mach, res.net.mach, rtol=1e-12)
     assert "CAUTION" in open(tmp_path / "flowfield.vtu", encoding="utf-8").read(2000)
+
+
+def test_vtk_xdmf_reader_reads_the_inline_xdmf(tmp_path):
+    if not hasattr(vtk, "vtkXdmfReader"):
+        pytest.skip("this VTK build has no XDMF reader")
+    res = source_flow_result(p0_dip=True)
+    export(res, ["xdmf"], tmp_path, units="mm")
+    r = vtk.vtkXdmfReader()
+    r.SetFileName(str(tmp_path / "flowfield.xdmf"))
+    r.Update()
+    g = r.GetOutputDataObject(0)
+    assert g.GetNumberOfPoints() == res.net.size
+    kinds = [g.GetCellType(i) for i in range(g.GetNumberOfCells())]
+    assert kinds.count(vtk.VTK_TRIANGLE) == 20 and kinds.count(vtk.VTK_QUAD) == len(res.net.cells) - 20
+    pts = vtk_to_numpy(g.GetPoints().GetData())
+    assert np.allclose(pts[:, 0], res.net.x * THROAT_MM, rtol=1e-12, atol=1e-12)
+    pd = g.GetPointData()
+    assert np.array_equal(vtk_to_numpy(pd.GetArray("mach")), res.net.mach)
+    assert np.array_equal(vtk_to_numpy(pd.GetArray("p0_ratio")), res.net.p0_ratio)
+    assert vtk_to_numpy(pd.GetArray("velocity_a0")).shape == (res.net.size, 3)

@@ -30,6 +30,7 @@ import numpy as np
 from moc import __version__
 from moc.errors import ComputationError, InputError
 from moc.io.atomic import atomic_path, check_writable
+from moc.plot import number
 
 CAUTIONS = (
     "Nozzles, rocket motors, pressurised wind tunnels and their test cells can injure or kill people: "
@@ -450,10 +451,16 @@ def _files_section(directory):
     if directory is None:
         return "<p>No result directory given.</p>"
     d = Path(directory)
-    files = sorted(p for p in d.iterdir() if p.is_file() and not p.name.startswith(".")) if d.is_dir() else []
+    files = []
+    if d.is_dir():
+        # the directory and its sub-directories (moc export writes DIR/export/ by default), two levels deep
+        for p in sorted(d.rglob("*")):
+            rel = p.relative_to(d)
+            if p.is_file() and len(rel.parts) <= 3 and not any(part.startswith(".") for part in rel.parts):
+                files.append((rel.as_posix(), p.stat().st_size))
     if not files:
         return "<p>No files found.</p>"
-    rows = [(f"<code>{_e(p.name)}</code>", _e(f"{p.stat().st_size:,}")) for p in files]
+    rows = [(f"<code>{_e(name)}</code>", _e(f"{size:,}")) for name, size in files]
     return _table(rows, head=("file", "bytes"), num_cols=(1,))
 
 
@@ -480,12 +487,15 @@ def build_report(result, result_dir=None, coarse=None, recompute=True, figures=T
     study = refinement_study(result, coarse) if coarse is not None else None
     meta = (result.inputs or {}).get("meta") or {}
     title = meta.get("title") if isinstance(meta, dict) else None
+    if not title and isinstance(s.get("contour"), str) and s["contour"] != "contour":
+        title = s["contour"]
     kind = "Nozzle design" if result.kind == "design" else "Nozzle analysis"
     head = f"{kind}: {title}" if title else kind
     when = _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M UTC")
     geo = s.get("geometry", "")
-    sub = ", ".join(b for b in (str(geo), f"gamma = {fmt_value(s['gamma'])}" if "gamma" in s else "",
-                                f"exit M = {fmt_value(s['exit_mach'])}" if "exit_mach" in s else "") if b)
+    g, me = number(s, "gamma"), number(s, "exit_mach")
+    sub = ", ".join(b for b in (str(geo), f"gamma = {fmt_value(g)}" if g is not None else "",
+                                f"exit M = {fmt_value(me)}" if me is not None else "") if b)
     caution_html = "".join(f"<p>{_e(c)}</p>" for c in CAUTIONS)
     body = [
         f"<h1>{_e(head)}</h1>",

@@ -111,6 +111,9 @@ def test_report_is_valid_and_has_every_summary_number(tmp_path, shock_result):
     from moc.report import build_report
 
     d = _save(tmp_path, shock_result)
+    (d / "export").mkdir()
+    (d / "export" / "wall.dxf").write_text("0\nEOF\n")
+    (d / ".hidden.tmp").write_text("x")
     page = build_report(shock_result, result_dir=d, recompute=False, dpi=30)
     text = check_html(page)
     for key, v in _flat(shock_result.summary):
@@ -123,7 +126,8 @@ def test_report_is_valid_and_has_every_summary_number(tmp_path, shock_result):
     assert "injure or kill" in low
     assert "local codes" in low and "licensed" in low
     # the files of the directory are listed
-    assert "result.npz" in text and "summary.json" in text
+    assert "result.npz" in text and "summary.json" in text and "export/wall.dxf" in text
+    assert ".hidden.tmp" not in text
     # figures embedded as PNG data
     assert page.count('src="data:image/png;base64,') >= 5
 

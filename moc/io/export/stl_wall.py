@@ -12,8 +12,12 @@ header, uint32 count, 50 bytes per facet) as in the STL specification
 
 import numpy as np
 
-
 _FACET = np.dtype([("normal", "<f4", 3), ("v", "<f4", (3, 3)), ("attr", "<u2")])
+
+
+def span(y, ctx):
+    """Planar STL span in the output unit: --width, else twice the exit half-height."""
+    return ctx.options.width if ctx.options.width else 2.0 * float(y[-1])
 
 
 def sections(x, y, ctx):
@@ -24,7 +28,7 @@ def sections(x, y, ctx):
         a = 2.0 * np.pi * np.arange(m) / m
         yz = np.stack([np.cos(a), np.sin(a)], axis=-1)[None, :, :] * y[:, None, None]
     else:
-        w = 0.5 * ctx.options.width if ctx.options.width else float(y[-1])
+        w = 0.5 * span(y, ctx)
         s = np.array([[1.0, -1.0], [1.0, 1.0], [-1.0, 1.0], [-1.0, -1.0]])
         yz = s[None, :, :] * np.stack([y, np.full(n, w)], axis=-1)[:, None, :]
     xs = np.broadcast_to(x[:, None, None], yz.shape[:2] + (1,))
@@ -74,5 +78,5 @@ def write(path, ctx):
     with open(path, "wb") as fh:
         fh.write(stl_bytes(tri, header))
     how = (f"revolved, {ctx.options.segments} segments" if ctx.axisymmetric
-           else f"extruded over {2 * float(sections(x, y, ctx)[0, 1, 2]):.6g} {ctx.unit}")
+           else f"extruded over {span(y, ctx):.6g} {ctx.unit}")
     ctx.note(f"wall.stl: {tri.shape[0]} facets ({how}), cavity volume {signed_volume(tri):.6g} {ctx.unit}^3")

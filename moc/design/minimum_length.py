@@ -92,7 +92,6 @@ def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-11):
     nue = prandtl_meyer(exit_mach, gamma)
     if not delta:
         return 0.5 * nue
-    from scipy.optimize import brentq
 
     def coarse(m):
         def f(t):
@@ -126,34 +125,62 @@ def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-11):
                     lo = mid
         if lo == 0.0:
             lo = 1e-6 * hi
-        return brentq(f, lo, hi, xtol=1e-13, rtol=1e-13)
+        return _illinois(f, lo, hi, f(lo), f(hi), 1e-12 * hi)
 
-    levels = [m for m in (12, 24) if m < n]
-    if not levels:
-        return coarse(n)
-    th = [coarse(m) for m in levels]
-    if len(th) == 2:
-        c = (th[0] - th[1]) / (1.0 / levels[0] ** 2 - 1.0 / levels[1] ** 2)
-        guess = th[1] - c * (1.0 / levels[1] ** 2 - 1.0 / n**2)
-    else:
-        guess = th[0]
-    h = 1e-7 * guess
-    f0 = _axis_residual(guess, n, gamma, delta, power, nue)
-    t0 = guess
-    if abs(f0) <= tol:
-        return t0
-    # slope from the coarsest level (smooth in n)
-    m0 = levels[0]
-    slope = (_axis_residual(th[0] + h, m0, gamma, delta, power, nue)
-             - _axis_residual(th[0] - h, m0, gamma, delta, power, nue)) / (2 * h)
-    for _ in range(12):
-        t1 = t0 - f0 / slope
-        f1 = _axis_residual(t1, n, gamma, delta, power, nue)
-        if abs(f1) <= tol or t1 == t0:
-            return t1
-        slope = (f1 - f0) / (t1 - t0)
-        t0, f0 = t1, f1
+    # a bracketed root on a coarse net, then secant iterations on finer nets
+    # (the slope carried from level to level), the last level being n
+    m0 = min(n, 10)
+    t0 = coarse(m0)
+    h = 1e-6 * t0
+    slope = (_axis_residual(t0 + h, m0, gamma, delta, power, nue)
+             - _axis_residual(t0 - h, m0, gamma, delta, power, nue)) / (2 * h)
+    levels = [m for m in (40, 160) if m < n // 2] + [n] if n > m0 else []
+    for m in levels:
+        t0, slope = _secant(lambda t: _axis_residual(t, m, gamma, delta, power, nue), t0, slope, tol)
     return t0
+
+
+def _illinois(f, a, b, fa, fb, xtol, maxiter=100):
+    """Bracketed root of f on [a, b] (fa < 0 < fb) by the Illinois variant of
+    regula falsi (Dowell and Jarratt, BIT 11, 1971, from memory); a non-finite
+    value counts as positive (the net broke down: far too strong a fan)."""
+    side = 0
+    for _ in range(maxiter):
+        c = b - fb * (b - a) / (fb - fa) if np.isfinite(fb) else 0.5 * (a + b)
+        if not (a < c < b):
+            c = 0.5 * (a + b)
+        fc = f(c)
+        if fc > 0.0 or not np.isfinite(fc):
+            b, fb = c, fc
+            if side == 1:
+                fa *= 0.5
+            side = 1
+        else:
+            a, fa = c, fc
+            if side == -1 and np.isfinite(fb):
+                fb *= 0.5
+            side = -1
+        if abs(b - a) <= xtol or fc == 0.0:
+            break
+    return c
+
+
+def _secant(f, t0, slope, tol, maxiter=12):
+    """Secant iterations from t0 with an initial slope; returns (root, last slope)."""
+    f0 = f(t0)
+    for _ in range(maxiter):
+        if abs(f0) <= tol:
+            break
+        t1 = t0 - f0 / slope
+        f1 = f(t1)
+        if t1 == t0:
+            break
+        if f1 != f0:
+            slope = (f1 - f0) / (t1 - t0)
+        t0, f0 = t1, f1
+    else:
+        raise ComputationError("the corner-angle iteration did not converge; try another number of characteristics.")
+    return t0, slope
 
 
 def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
@@ -169,10 +196,11 @@ def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
     nu_e = axis_nu[-1]  # = nue to the root tolerance (exactly for planar)
     mu_e = float(mu_of_nu(np.array([nu_e]), g)[0])
 
-    # the uniform exit C+ from E, a little beyond the exact lip height
+    # the uniform exit C+ from E: m even steps up to the exact lip height (so the
+    # lip falls on a grid point at every n) and three more beyond it
     y_exact = area_ratio(me, g) ** (1.0 / (1 + delta))
-    m = n
-    ye = y_exact * (1.0 + 3.0 / m) * np.arange(m + 1) / m
+    m = n + 3
+    ye = y_exact * np.arange(m + 1) / n
     xE = kgrid.x[n - 1, n - 1]
     cplus = Points(xE + ye / math.tan(mu_e), ye, np.zeros(m + 1), np.full(m + 1, nu_e), np.full(m + 1, mu_e))
     cminus = kgrid.cminus(n - 1)  # ray n-1 from i = 0 (by the corner) to E (i = n-1)

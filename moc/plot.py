@@ -324,24 +324,35 @@ def _dimension(ax, p0, p1, text, offset=(0, 0), color=INK, rotation=0):
 
 
 def plot_wall(result, ax=None):
-    """The wall contour in real units with the throat, exit and length dimensions annotated."""
+    """The wall contour in real units with the throat, exit and length dimensions annotated.
+
+    With a subsonic inlet, the inlet is drawn too and its face size and length
+    are dimensioned.
+    """
     fig, ax = _new_axes(ax, SIZES["wall"])
     x, y = _require_wall(result)
     scale, unit, real = length_scale(result)
-    u = unit
     X, Y = x * scale, y * scale
+    ix, iy = _arr(result.inlet, "x") * scale, _arr(result.inlet, "y") * scale
+    has_inlet = ix.size >= 2 and ix.size == iy.size and float(ix.min()) < float(X.min())
     _draw_wall(ax, result, scale)
     _draw_axis(ax, result, scale)
     ax.fill_between(X, Y, 0.0, color="#eeeeee", zorder=0)
+    if has_inlet:
+        o = np.argsort(ix)
+        ax.fill_between(ix[o], iy[o], 0.0, color="#eeeeee", zorder=0)
     axi = _is_axi(result)
     name_t = "throat radius" if axi else "throat half-height"
     name_e = "exit radius" if axi else "exit half-height"
     k0 = int(np.argmin(Y))  # the throat is the smallest section
     yt = float(Y[k0])
     ye = float(Y[-1])
-    span = float(X.max() - min(X.min(), 0.0)) or 1.0
+    xlo = min(float(X.min()), 0.0, float(ix.min()) if has_inlet else 0.0)
+    ytop = max(float(Y.max()), float(iy.max()) if has_inlet else 0.0, 1e-12)
+    span = float(X.max() - xlo) or 1.0
+
     def fmtn(v):
-        return f"{v:.4g} {u}"
+        return f"{v:.4g} {unit}"
 
     _dimension(ax, (X[k0], 0.0), (X[k0], yt), f"{name_t}\n{fmtn(yt)}", offset=(0.09 * span, 0))
     _dimension(ax, (X[-1], 0.0), (X[-1], ye), f"{name_e}\n{fmtn(ye)}", offset=(-0.09 * span, 0))
@@ -349,26 +360,35 @@ def plot_wall(result, ax=None):
     _dimension(ax, (X[k0], ylen), (X[-1], ylen), f"length throat to exit {fmtn(X[-1] - X[k0])}")
     ax.plot([X[k0], X[k0]], [ylen, 0], color=INK, linewidth=0.5)
     ax.plot([X[-1], X[-1]], [ylen, 0], color=INK, linewidth=0.5)
+    if has_inlet:
+        kf = int(np.argmin(ix))
+        xf, yf = float(ix[kf]), float(iy[kf])
+        _dimension(ax, (xf, 0.0), (xf, yf), f"{'inlet radius' if axi else 'inlet half-height'}\n{fmtn(yf)}",
+                   offset=(0.08 * span, 0))
+        _dimension(ax, (xf, ylen), (X[k0], ylen), f"inlet {fmtn(X[k0] - xf)}")
+        ax.plot([xf, xf], [ylen, 0], color=INK, linewidth=0.5)
     s = result.summary
     notes = []
-    for key, text, f in (("area_ratio", "exit area ratio A/A* = {:.5g}", 1),
-                         ("corner_angle_deg", "corner angle = {:.4g} deg", 1),
-                         ("inflection_angle_deg", "inflection angle = {:.4g} deg", 1),
-                         ("max_wall_angle_deg", "max wall angle = {:.4g} deg", 1)):
+    for key, text in (("area_ratio", "exit area ratio A/A* = {:.5g}"),
+                      ("corner_angle_deg", "corner angle = {:.4g} deg"),
+                      ("inflection_angle_deg", "inflection angle = {:.4g} deg"),
+                      ("max_wall_angle_deg", "max wall angle = {:.4g} deg")):
         v = number(s, key)
         if v is not None:
-            notes.append(text.format(v * f))
+            notes.append(text.format(v))
     if not real:
         notes.append("lengths in throat units (no throat size given)")
     if notes:
-        ax.text(0.01, 0.80, "\n".join(notes), transform=ax.transAxes, ha="left", va="top", fontsize=8.5,
-                bbox=dict(boxstyle="round,pad=0.3", facecolor="white", edgecolor="#bbbbbb"))
+        # in the shaded flow area, clear of the dimension arrows at the throat and the exit
+        xm = X[k0] + 0.55 * (X[-1] - X[k0])
+        ax.text(xm, 0.3 * min(yt, ye), "\n".join(notes), ha="center", va="bottom", fontsize=8.5,
+                bbox=dict(boxstyle="round,pad=0.3", facecolor="white", edgecolor="#bbbbbb"), zorder=6)
     _finish_xy(ax, result, _title(result, "Wall contour"))
     ax.set_aspect("equal", adjustable="box")
     pad = 0.04 * span
-    ax.set_xlim(min(X.min(), 0.0) - pad, X.max() + pad)
-    ax.set_ylim(ylen * 1.6, max(Y.max(), 1e-12) * 1.15)
-    ax.legend(loc="upper left", fontsize=8, framealpha=0.9)
+    ax.set_xlim(xlo - pad, X.max() + pad)
+    ax.set_ylim(ylen * 1.6, ytop * 1.15)
+    ax.legend(loc="upper center" if has_inlet else "upper left", fontsize=8, framealpha=0.9)
     return fig
 
 

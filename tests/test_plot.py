@@ -299,3 +299,20 @@ def test_all_skips_what_an_analysis_cannot_draw(tmp_path, capsys):
     assert got["skipped"] == ["exit: not drawn, the result has no exit profile"]
     assert main(["plot", str(d), "--what", "exit"]) == 2
     assert "no exit profile" in capsys.readouterr().err
+
+
+def test_wall_with_inlet_dimensions_the_inlet_face(res):
+    # A circular-arc-and-cone inlet of face half-height 2 (throat units) ahead of the
+    # throat: drawn inside the axes and dimensioned in mm (10 mm throat -> 20 mm face).
+    from moc import plot
+
+    r = source_flow_result()
+    t = np.linspace(0, 1, 30)
+    r.inlet = {"x": -3.0 + 3.0 * t, "y": 2.0 - 1.0 * np.sin(0.5 * np.pi * t)}
+    fig = plot.plot_wall(r)
+    ax = fig.axes[0]
+    texts = " ".join(t.get_text() for t in ax.texts)
+    assert "inlet half-height\n20 mm" in texts
+    assert "inlet 30 mm" in texts
+    lo, hi = ax.get_xlim()
+    assert lo < -30.0 and hi > r.wall["x"].max() * 10

@@ -289,18 +289,25 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         for k in ("beta", "p2_p1", "p02_p01", "m1", "m2", "theta1"):
             v = sh[k]
             arrays[k] = np.append(v, v[-1]) if xs_.size > v.size else v
+        inside = arrays["x"] <= x_end
+        if fit.fate == "exit" and np.count_nonzero(inside) >= 1 and not np.all(inside):
+            # cut the written shock path at the exit plane
+            j = int(np.flatnonzero(~inside)[0])
+            u = (x_end - arrays["x"][j - 1]) / (arrays["x"][j] - arrays["x"][j - 1]) if j >= 1 else 0.0
+            arrays = {k: np.append(v[:j], v[j - 1] + u * (v[j] - v[j - 1]) if j >= 1 else v[0]) for k, v in arrays.items()}
+            end = (float(arrays["x"][-1]), float(arrays["y"][-1]))
         shocks.append(arrays)
         entry = {
             "start_x": float(sh["x"][0]), "start_y": float(sh["y"][0]),
             "end_x": float(end[0]), "end_y": float(end[1]),
-            "max_pressure_ratio": float(np.max(sh["p2_p1"])) if sh["p2_p1"].size else 1.0,
-            "total_pressure_ratio": float(np.min(sh["p02_p01"])) if sh["p02_p01"].size else 1.0,
+            "max_pressure_ratio": float(np.max(arrays["p2_p1"])) if arrays["p2_p1"].size else 1.0,
+            "total_pressure_ratio": float(np.min(arrays["p02_p01"])) if arrays["p02_p01"].size else 1.0,
             "family": "C-",
             "fate": fit.fate,
             "fate_detail": fit.fate_detail,
-            "beta_start_deg": float(np.degrees(sh["beta"][0])) if sh["beta"].size else None,
-            "beta_end_deg": float(np.degrees(sh["beta"][-1])) if sh["beta"].size else None,
-            "points": int(sh["x"].size),
+            "beta_start_deg": float(np.degrees(arrays["beta"][0])) if arrays["beta"].size else None,
+            "beta_end_deg": float(np.degrees(arrays["beta"][-1])) if arrays["beta"].size else None,
+            "points": int(arrays["x"].size),
         }
         if fit.reflection is not None:
             entry["reflection"] = fit.reflection
@@ -322,9 +329,26 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         "caution": CAUTION,
         "seconds": round(time.perf_counter() - t0, 3),
     })
+    # what is written stops at the exit plane (the march runs a little past it to cover the exit section)
+    keep = allp["x"] <= x_end + 1e-9 * max(1.0, abs(x_end))
+    new_index = -np.ones(keep.size, np.int64)
+    new_index[keep] = np.arange(int(keep.sum()))
+    cells = np.asarray(cl, np.int64).reshape(-1, 4)
+    cells = new_index[cells[np.all(keep[cells], axis=1)]] if cells.size else cells
+    allp = {k: v[keep] for k, v in allp.items()}
+    summary["points"] = int(keep.sum())
     net_out = Net(x=allp["x"], y=allp["y"], theta=allp["theta"], mach=allp["mach"],
-                  cplus=np.concatenate(labs_p), cminus=np.concatenate(labs_m),
-                  cells=np.asarray(cl, np.int64).reshape(-1, 4), p0_ratio=np.exp(allp["lnp0"]))
+                  cplus=np.concatenate(labs_p)[keep], cminus=np.concatenate(labs_m)[keep],
+                  cells=cells, p0_ratio=np.exp(allp["lnp0"]))
+    wk = wall_pts["x"] <= x_end + 1e-12
+    if np.any(~wk) and np.any(wk) and wall_pts["x"][wk][-1] < x_end - 1e-12:
+        # close the wall at the exit plane (linear between the two wall points around it)
+        fin = np.isfinite(wall_pts["mach"])
+        endp = {k: float(np.interp(x_end, wall_pts["x"][fin], wall_pts[k][fin])) for k in KEYS}
+        endp["y"] = y_exit
+        wall_pts = {k: np.append(v[wk], endp[k]) for k, v in wall_pts.items()}
+    else:
+        wall_pts = {k: v[wk] for k, v in wall_pts.items()}
     wall_out = {"x": wall_pts["x"], "y": wall_pts["y"], "theta": wall_pts["theta"], "mach": wall_pts["mach"],
                 "p_p0": np.exp(wall_pts["lnp0"]) * (1 + 0.5 * (g - 1) * wall_pts["mach"] ** 2) ** (-g / (g - 1))}
     ax = allp["y"] <= 1e-12

@@ -224,7 +224,8 @@ def wall_point(a, wall, gamma, delta, lnp0_wall=None):
         yp = yn
         if done:
             break
-    bad = ~(np.isfinite(mp) & (s > 0))
+    miss = np.abs(yp - wall.y_of(xp)) > 1e-9 * np.maximum(1.0, np.abs(yp))
+    bad = ~(np.isfinite(mp) & (s > 0)) | miss
     out = dict(x=xp, y=yp, theta=thp, nu=nup, mach=mp, lnp0=np.broadcast_to(lnw, np.shape(xp)).astype(float))
     if np.any(bad):
         for k in KEYS:

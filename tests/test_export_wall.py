@@ -45,6 +45,15 @@ def test_dxf_reads_back_with_units_layers_and_points(tmp_path, unit, code):
     assert np.allclose(fit[-1], data[-1, :2], rtol=1e-9)
     axis = msp.query("LINE")[0]
     assert axis.dxf.layer == "AXIS" and axis.dxf.start[1] == 0.0 and axis.dxf.end[1] == 0.0
+    # dimensions in the drawing unit: overall length, exit radius, throat radius (the saved throat size)
+    dims = sorted(d.get_measurement() for d in msp.query("DIMENSION"))
+    throat = THROAT_MM * {"mm": 1.0, "in": 1.0 / 25.4, "m": 1e-3}[unit]
+    expect = sorted([data[-1, 0] - data[0, 0], data[-1, 1], throat])
+    assert np.allclose(dims, expect, rtol=1e-9)
+    assert {d.dxf.layer for d in msp.query("DIMENSION")} == {"DIMENSIONS"}
+    for d in msp.query("DIMENSION"):  # the drawn text shows the measured length itself (no scale factor)
+        shown = [e.plain_text() for e in doc.blocks.get(d.dxf.geometry).query("MTEXT")]
+        assert float(shown[0]) == pytest.approx(d.get_measurement(), rel=1e-4, abs=1e-4)
     text = " ".join(t.dxf.text for t in msp.query("TEXT"))
     assert "CAUTION" in text
     assert any("CAUTION" in str(tag.value) for tag in comments.from_file(str(tmp_path / "w.dxf")))

@@ -282,6 +282,7 @@ def plot_mach_field(result, ax=None, levels=24, show_net=True):
             ax.add_collection(LineCollection([pts[i] for i in lines], zorder=2, **st))
     _draw_wall(ax, result, scale)
     _draw_axis(ax, result, scale)
+    _draw_shock_paths(ax, result, scale)
     cb = fig.colorbar(cs, ax=ax, shrink=0.9, pad=0.01, ticks=MaxNLocator(8).tick_values(lo, hi))
     cb.set_label("Mach number M")
     cb.ax.set_ylim(lo, hi)
@@ -409,6 +410,20 @@ def _gamma(result):
     return 1.4
 
 
+def _me_name(result):
+    return "design exit M" if result.kind == "design" else "mean exit M"
+
+
+def _draw_shock_paths(ax, result, scale, label=True):
+    n = 0
+    for sh in result.shocks:
+        sx, sy = _arr(sh, "x"), _arr(sh, "y")
+        if sx.size >= 1 and sx.size == sy.size:
+            ax.plot(sx * scale, sy * scale, zorder=6, label="shock" if (label and n == 0) else None, **STYLE["shock"])
+            n += 1
+    return n
+
+
 def _sparse_log_label(v, _pos=None):
     """Label minor log ticks only at 2 and 5 times a power of ten."""
     if not v > 0:
@@ -447,7 +462,7 @@ def plot_distributions(result, fig=None):
         raise InputError("the result has neither wall nor centreline Mach numbers to plot.")
     me = number(result.summary, "exit_mach")
     if me is not None:
-        ax1.axhline(me, color=ACCENT2, linestyle=":", linewidth=1.2, label=f"design exit M = {me:.4g}")
+        ax1.axhline(me, color=ACCENT2, linestyle=":", linewidth=1.2, label=f"{_me_name(result)} = {me:.4g}")
         ax2.axhline(float(_p_over_p0(np.array([me]), g)[0]), color=ACCENT2, linestyle=":", linewidth=1.2,
                     label="isentropic p/p0 at exit M")
     for sh in result.shocks:
@@ -482,7 +497,7 @@ def plot_exit(result, fig=None):
              markevery=max(1, ey.size // 20), label="computed")
     me = number(result.summary, "exit_mach")
     if me is not None:
-        ax1.axvline(me, color=ACCENT2, linestyle=":", linewidth=1.4, label=f"design M = {me:.4g}")
+        ax1.axvline(me, color=ACCENT2, linestyle=":", linewidth=1.4, label=f"{_me_name(result)} = {me:.4g}")
     ax1.set_xlabel("Mach number M")
     ax1.set_ylabel(_len_label(result, _radial_name(result)))
     if et.size == ey.size:

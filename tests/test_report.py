@@ -275,3 +275,37 @@ def test_report_of_an_incomplete_analysis(shock_result):
     assert "the exit plane was not reached." in text
     assert "Not drawn: the result has no exit profile" in text
     assert "null" in text
+
+
+def _analysis_api():
+    try:
+        from moc.analysis.analyze import analyze  # noqa: F401
+        from moc.analysis.contour import bell  # noqa: F401
+    except ImportError:
+        return False
+    return True
+
+
+@pytest.mark.skipif(not _analysis_api(), reason="the contour analysis is not in this tree")
+def test_figures_and_report_of_a_real_shock_analysis(tmp_path):
+    # A planar parabolic bell turning from 30 to 8 deg in 6 throat units overturns
+    # the flow, so its C- characteristics coalesce into an internal shock (common
+    # practice: a bell's compression turn makes the well-known internal shock).
+    # The drawn shock starts at the reported coalescence point (same result, two readers).
+    from moc import plot
+    from moc.analysis.analyze import analyze
+    from moc.analysis.contour import bell
+    from moc.report import build_report
+
+    r = analyze(bell(30, 8, 6.0, geometry="planar"), gamma=1.4, geometry="planar", n=20)
+    assert r.summary["shock_free"] is False
+    fig = plot.plot_shocks(r)
+    line = next(l for l in fig.axes[0].lines if l.get_label() == "shock")
+    cp = plot.coalescence_point(r.summary)
+    assert (line.get_xdata()[0], line.get_ydata()[0]) == pytest.approx(cp, abs=1e-9)
+    d = _save(tmp_path, r)
+    text = check_html(build_report(r, result_dir=d, dpi=20))
+    assert "an internal shock forms" in text
+    assert "a property of the analysed contour" in text
+    for key, v in _flat(r.summary):
+        assert _text_of(v) in text, (key, v)

@@ -106,6 +106,11 @@ def test_plume_region_adds_farfield_and_moves_the_outlet(tmp_path):
     assert m.points[:, 0].max() == pytest.approx(xe + L, rel=1e-12)
     assert m.points[:, 1].max() == pytest.approx(H, rel=1e-12)
     assert ye < H
+    # the plume columns start with the nozzle's last axial step and grow downstream
+    xs = np.unique(np.round(m.points[:, 0], 9))
+    k = int(np.searchsorted(xs, xe - 1e-9))
+    assert xs[k + 1] - xs[k] == pytest.approx(xs[k] - xs[k - 1], rel=1e-6)
+    assert np.all(np.diff(xs[k:], 2) > -1e-9)
 
 
 def test_grading_has_the_requested_first_cell_and_fills_the_height():

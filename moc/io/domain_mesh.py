@@ -8,7 +8,8 @@ the cells grow geometrically from the wall with a given first-cell height,
 the usual wall grading of boundary-layer meshes (common practice).  The
 plume region is a rectangle downstream of the exit, from the axis to a
 given height; its rows continue the exit station's rows and grow upward
-from the lip with the same first-cell height.  Named boundaries: inlet,
+from the lip with the same first-cell height, and its columns start with
+the nozzle's last axial step and grow geometrically downstream.  Named boundaries: inlet,
 outlet, wall, axis (axisymmetric) or symmetry (planar), farfield (plume top
 and the face above the lip).
 
@@ -149,7 +150,11 @@ def build(contour, axial_cells, radial_cells, first_cell, axisymmetric=True, plu
             raise ExportError(f"--plume-height ({h:.4g}) must exceed the exit radius/half-height ({ye:.4g}).")
         up = ye + graded(h - ye, first_cell, plume_radial_cells)[0, 1:]
         rows = np.concatenate([Y[-1], up])
-        xp = xw[-1] + plume_length * np.arange(1, plume_axial_cells + 1) / plume_axial_cells
+        dx = xw[-1] - xw[-2]  # the plume's first column continues the nozzle's last, then grows
+        if dx * plume_axial_cells < plume_length * (1 - 1e-9):
+            xp = xw[-1] + graded(plume_length, dx, plume_axial_cells)[0, 1:]
+        else:
+            xp = xw[-1] + plume_length * np.arange(1, plume_axial_cells + 1) / plume_axial_cells
         npr = rows.size
         pg = np.empty((plume_axial_cells + 1, npr), dtype=np.int64)
         pg[0, :ny] = gid[-1]

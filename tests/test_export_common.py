@@ -237,3 +237,28 @@ def test_export_leaves_the_result_unchanged_and_joins_inlet_to_wall(tmp_path):
     assert np.all(np.diff(data[:, 0]) > 0)
     first_wall = parts.index("wall")
     assert data[first_wall, 0] == 0.0 and data[first_wall, 1] == pytest.approx(THROAT_MM, rel=1e-15)
+
+
+def test_repeated_wall_points_are_corners(tmp_path):
+    """A wall that repeats its corner point (an expansion fan stored at a sharp corner) exports as corners.
+
+    Geometry (common geometry): a 15 degree cone from the throat, then at x = 2 a kink to a 5 degree cone;
+    both parts are straight, so the exported points are exactly the three corners and the two ends.
+    """
+    from moc.io.export import write
+    res = source_flow_result(inlet=False)
+    t1, t2 = math.radians(15.0), math.radians(5.0)
+    xa = np.linspace(0.0, 2.0, 9)
+    ya = 1.0 + xa * math.tan(t1)
+    xb = np.linspace(2.0, 5.0, 13)
+    yb = ya[-1] + (xb - 2.0) * math.tan(t2)
+    fan = np.linspace(0.0, t1, 6)   # the fan at the throat corner: one point, six angles
+    x = np.concatenate([np.zeros(5), xa, xb])
+    y = np.concatenate([np.ones(5), ya, yb])
+    th = np.concatenate([fan[:5], np.full(xa.size, t1), np.full(xb.size, t2)])
+    res.wall = {"x": x, "y": y, "theta": th}
+    write("csv", tmp_path / "w.csv", res, units="mm", options={"chord_tolerance": 1e-6})
+    _, parts, data = read_csv(tmp_path / "w.csv")
+    assert np.allclose(data[:, 0] / THROAT_MM, [0.0, 2.0, 5.0], atol=1e-12)
+    assert np.allclose(data[:, 1] / THROAT_MM, [1.0, ya[-1], yb[-1]], rtol=1e-12)
+    assert np.allclose(data[:, 3], [15.0, 5.0, 5.0], rtol=1e-9)  # angle on the downstream side of each corner

@@ -3,7 +3,9 @@
 The true contour is a cubic spline through the saved wall points (clamped to
 the saved wall angle at both ends when the result holds it), plus a separate
 spline through the subsonic inlet points, so the throat corner of a
-minimum-length nozzle is kept as a corner.  Exported points are placed so
+minimum-length nozzle is kept as a corner.  A point the wall repeats (a
+sharp corner, where an analysis stores the expansion fan) also splits the
+wall into separate splines, each clamped to the angle on its own side.  Exported points are placed so
 that the largest distance between the spline and the straight segments
 between consecutive points stays below a tolerance: for a curve of local
 curvature kappa the arc allowed per segment is (2/kappa) acos(1 - tol kappa),
@@ -103,9 +105,14 @@ class Contour:
         wx, wy, wt = _checked(result.wall or {}, "wall", need_theta=True)
         if wx.size < 2:
             raise ExportError("the saved wall has fewer than 2 points; nothing to export.")
-        if np.any(np.diff(wx) <= 0.0):
-            k = int(np.flatnonzero(np.diff(wx) <= 0.0)[0])
+        eps = 1e-12 * max(1.0, float(np.abs(wy).max()))
+        same = np.hypot(np.diff(wx), np.diff(wy)) <= eps   # a repeated point marks a corner
+        back = (np.diff(wx) <= 0.0) & ~same
+        if np.any(back):
+            k = int(np.flatnonzero(back)[0])
             raise ExportError(f"the saved wall does not advance downstream at point {k + 1}; it cannot be exported.")
+        if np.all(same):
+            raise ExportError("the saved wall has fewer than 2 distinct points; nothing to export.")
         pieces = []
         ix, iy, _ = _checked(result.inlet or {}, "inlet")
         if ix.size:
@@ -116,7 +123,13 @@ class Contour:
             ix, iy = np.append(ix[keep], wx[0]), np.append(iy[keep], wy[0])
             if ix.size >= 2:
                 pieces.append(_make_piece("inlet", ix, iy))
-        pieces.append(_make_piece("wall", wx, wy, wt))
+        # smooth runs between corners: steps a..b join points a..b+1; each run ends where a corner begins
+        run = np.concatenate([[False], ~same, [False]]).astype(np.int8)
+        starts = np.flatnonzero(np.diff(run) == 1)
+        ends = np.flatnonzero(np.diff(run) == -1)
+        for a, b in zip(starts, ends):
+            sl = slice(a, b + 1)
+            pieces.append(_make_piece("wall", wx[sl], wy[sl], None if wt is None else wt[sl]))
         return cls(pieces)
 
 

@@ -109,8 +109,11 @@ def test_result_contract(axi3):
         ({"exit_mach": 2.0, "geometry": "conical"}, InputError),
         ({"exit_mach": 2.0, "n": 2}, InputError),
         ({"exit_mach": 2.0, "n": 10.5}, InputError),
-        # nu(30)/2 = 142 deg for gamma = 1.1: a sharp corner cannot turn the wall past 90 deg
-        ({"exit_mach": 30.0, "gamma": 1.1, "geometry": "planar"}, MachError),
+        # nu(18)/2 = 94 deg for gamma = 1.1: a sharp corner cannot turn the wall past 90 deg
+        ({"exit_mach": 18.0, "gamma": 1.1, "geometry": "planar"}, MachError),
+        # exit Mach angle below 3 deg (Me above 1/sin 3 deg = 19.107): degenerate net
+        ({"exit_mach": 60.0, "geometry": "planar"}, MachError),
+        ({"exit_mach": 19.2}, MachError),
     ],
 )
 def test_bad_input(kwargs, err):
@@ -123,8 +126,14 @@ def test_turning_limit_is_stated():
     # the limit follows from nu(Me)/2 < 90 deg (common practice statement of the corner limit)
     g = 1.1
     with pytest.raises(MachError, match="90 deg"):
-        design_minimum_length(30.0, g, "planar")
-    assert math.degrees(prandtl_meyer(30.0, g)) / 2 > 90
+        design_minimum_length(18.0, g, "planar")
+    assert math.degrees(prandtl_meyer(18.0, g)) / 2 > 90
+    with pytest.raises(MachError, match="Mach angle"):
+        design_minimum_length(19.2, 1.4, "planar")
+    r = design_minimum_length(19.0, 1.4, "axisymmetric", 60)  # just inside the stated limit
+    # Source: NACA Report 1135 A/A*(Me) (mass conservation)
+    assert abs(r.summary["area_ratio"] / area_ratio(19.0, 1.4) - 1) < 1e-9
+    assert r.summary["mass_flow_error"] < 0.02
 
 
 def _observed_order(ns, errors):

@@ -41,6 +41,10 @@ from moc.result import Net, Result
 #: exponent p of the fan clustering h(t) = p t^p - (p-1) t^(p+1)
 CLUSTER_POWER = 6
 GEOMETRIES = {"planar": 0, "axisymmetric": 1}
+#: smallest exit Mach angle accepted (deg): below it characteristics and streamlines
+#: are nearly parallel, the intersections of the net become ill-conditioned
+MIN_EXIT_MACH_ANGLE_DEG = 3.0
+MAX_EXIT_MACH = 1.0 / math.sin(math.radians(MIN_EXIT_MACH_ANGLE_DEG))
 
 
 def fan_angles(theta_c, n, power=CLUSTER_POWER):
@@ -63,6 +67,12 @@ def _check_inputs(exit_mach, gamma, geometry, n):
         raise MachError(f"exit Mach number must be a finite number above 1 for a supersonic nozzle, got {exit_mach!r}.")
     if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or n < 3:
         raise InputError(f"the number of characteristics must be a whole number of at least 3, got {n!r}.")
+    if me > MAX_EXIT_MACH:
+        raise MachError(
+            f"exit Mach number {me:g} is too high for this designer: the exit Mach angle must be at "
+            f"least {MIN_EXIT_MACH_ANGLE_DEG:g} deg (Me <= {MAX_EXIT_MACH:.4g}), beyond which the "
+            "characteristics run almost along the streamlines and the net degenerates."
+        )
     nue = prandtl_meyer(me, g)
     if 0.5 * nue >= 0.5 * math.pi * 0.999:
         raise MachError(
@@ -190,6 +200,16 @@ def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
     (kind "design"); lengths in throat half-heights (planar) or radii.
     """
     me, g, delta, n, nue = _check_inputs(exit_mach, gamma, geometry, n)
+    try:
+        return _design(me, g, delta, n, nue)
+    except ComputationError as exc:
+        raise ComputationError(
+            f"the minimum-length design for Me = {me:g}, gamma = {g:g} with {n} characteristics "
+            f"failed: {exc} More characteristics usually help at high exit Mach numbers."
+        ) from None
+
+
+def _design(me, g, delta, n, nue):
     power = CLUSTER_POWER
     theta_c = corner_angle(me, g, delta, n, power)
     (kgrid, axis_x, axis_nu), fan = _kernel(theta_c, n, g, delta, power)
@@ -224,9 +244,13 @@ def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
     wmu = np.concatenate([[corner.mu[-1]], wall["mu"]])
     wm = 1.0 / np.sin(wmu)
 
-    # streamline check
-    sx, sy, sth = trace_streamline(full, 0.0, 1.0, theta_c)
-    stream_dy = float(np.max(np.abs(sy - wy)))
+    # streamline check (None in the summary if a very coarse net cannot be traced)
+    try:
+        sx, sy, sth = trace_streamline(full, 0.0, 1.0, theta_c)
+        stream_dy = float(np.max(np.abs(sy - wy)))
+        ar_s = float(sy[-1] ** (1 + delta))
+    except ComputationError:
+        stream_dy = ar_s = None
 
     # mass balance across the C- rays of the kernel (corner to axis) and across
     # the exit C+ to (n-1, j) then the C- j up to the wall, for the check
@@ -249,7 +273,6 @@ def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
 
     net = _build_net(full, inside, corner, (wx, wy, wth, wm), n, m)
     ar = float(wy[-1] ** (1 + delta))
-    ar_s = float(sy[-1] ** (1 + delta))
     ar_i = float(area_ratio(me, g))
     dev = float(np.max(np.abs(exit_["mach"] - me)))
     summary = {
@@ -262,7 +285,7 @@ def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
         "area_ratio_isentropic": ar_i,
         "area_ratio_error": (ar - ar_i) / ar_i,
         "area_ratio_streamline": ar_s,
-        "area_ratio_streamline_error": (ar_s - ar_i) / ar_i,
+        "area_ratio_streamline_error": None if ar_s is None else (ar_s - ar_i) / ar_i,
         "exit_height": float(wy[-1]),
         "length": float(wx[-1]),
         "kernel_length": float(xE),

@@ -81,4 +81,5 @@ def write(path, ctx):
     comments = "".join(f"999\n{line}\n" for line in ctx.header_lines("wall contour"))
     with open(path, "w", encoding="utf-8", newline="") as fh:
         fh.write(comments + buf.getvalue())
-    ctx.note(f"wall.dxf: DXF R2000, {len(pts)} fit points, $INSUNITS = {INSUNITS[ctx.unit]} ({ctx.unit})")
+    ctx.note(f"wall.dxf: DXF R2000, {len(pts)} wall points in {len(ctx.contour.pieces)} spline(s) and a polyline, "
+             f"$INSUNITS = {INSUNITS[ctx.unit]} ({ctx.unit})")

@@ -40,13 +40,45 @@ def test_compression_corner_matches_weak_oblique_shock():
     assert np.allclose(sh["m2"], 1.6405, atol=2e-4)
     assert np.allclose(sh["p2_p1"], 1.7066, atol=2e-4)
     # the shock leaves the corner straight and meets the centre line at x = h / tan(beta) (geometry)
-    assert s["shocks"][0]["fate"] == "axis"
+    assert s["shocks"][0]["fate"] == "reflects_axis"
     assert s["shocks"][0]["end_x"] == pytest.approx(1.0 / math.tan(math.radians(39.314)), rel=2e-3)
     # downstream of the shock the flow is the uniform oblique-shock state, parallel to the wall
-    behind = r.net.p0_ratio < 1.0 - 1e-9
+    p02 = 0.98464  # p02/p01 behind the first shock (NACA Report 1135 oblique-shock relations, closed form)
+    behind = np.abs(r.net.p0_ratio - p02) < 1e-4
     assert np.count_nonzero(behind) > 20
     assert np.allclose(r.net.mach[behind], 1.6405, atol=5e-4)
     assert np.allclose(np.degrees(r.net.theta[behind]), -10.0, atol=1e-6)
+
+
+def test_regular_reflection_from_the_centre_line():
+    # Source: NACA Report 1135 theta-beta-M relation (regular reflection = two weak oblique shocks, the second
+    # turning the flow back parallel to the centre line), evaluated with moc.flow, which is checked against the
+    # report's tables in tests/test_relations.py.  M1 = 2, 10 deg ramp, height 1 above the centre line.
+    from moc.flow import oblique_shock
+
+    r = analyze(ramp(-10.0, length=6.0), 1.4, "planar", n=30, start="uniform", mach_in=2.0)
+    s = r.summary
+    assert len(s["shocks"]) == 2
+    first, second = s["shocks"]
+    s1 = oblique_shock(2.0, math.radians(10.0), 1.4)
+    s2 = oblique_shock(float(s1.m2), math.radians(10.0), 1.4)
+    assert second["family"] == "C+" and second["reflected_from"] == 1
+    assert second["start_x"] == pytest.approx(first["end_x"]) and second["start_y"] == 0.0
+    sh = r.shocks[1]
+    assert np.max(np.abs(sh["beta"] - float(s2.beta))) < math.radians(0.05)
+    assert np.allclose(sh["m2"], float(s2.m2), atol=1e-4)
+    assert second["max_pressure_ratio"] == pytest.approx(float(s2.p2_p1), rel=1e-4)
+    # geometry: the straight reflected shock, inclined at beta2 - 10 deg, meets the wall y = 1 - x tan(10 deg)
+    k = math.tan(float(s2.beta) - math.radians(10.0))
+    xw = (1.0 + first["end_x"] * k) / (k + math.tan(math.radians(10.0)))
+    assert second["end_x"] == pytest.approx(xw, rel=1e-3)
+    # behind it the flow is parallel to the centre line again, and total pressure is the product of both jumps
+    third = np.abs(r.net.p0_ratio - s1.p02_p01 * s2.p02_p01) < 1e-6
+    assert np.count_nonzero(third) > 10
+    assert np.allclose(r.net.theta[third], 0.0, atol=1e-8)
+    # at the wall no regular reflection exists (M3 = 1.285 cannot turn 10 deg): the march stops there with a warning
+    assert second["fate"] == "wall" and second["reflection"]["regular"] is False
+    assert any("no regular reflection" in w for w in s["warnings"])
 
 
 def _simple_wave_cusp(radius, turn, height, m1=2.0, gamma=1.4):

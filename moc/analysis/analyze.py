@@ -15,6 +15,7 @@ import numpy as np
 from moc.analysis import exitflow
 from moc.analysis.coalescence import first_crossing, unfolded_cells
 from moc.analysis.march import march
+from moc.analysis.reflect import flip, reflect
 from moc.analysis.shockfit import UpstreamField, fit_shock
 from moc.errors import InputError
 from moc.flow import oblique_shock, prandtl_meyer, shock_angle
@@ -79,7 +80,7 @@ def _downstream_of_cplus(D, pvalid, R, end):
 
 
 def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=None, step_factor=1.0,
-            initial=None, name="contour", throat_solution="hall"):
+            initial=None, name="contour", throat_solution="hall", max_reflections=6):
     """Analyse the flow along `wall` (a moc.analysis.contour.Wall); returns a Result (kind "analysis").
 
     start: "corner" (sharp sonic throat corner at the wall start, or a rounded
@@ -165,10 +166,26 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
                                    m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"], deflection=0.0)
                 y_ref = float(wall.y_of(cr.x))
     fit = None
+    chain = []  # (fit, frame): frame +1 real coordinates, -1 mirrored (a C+ shock)
     if start_shock is not None:
         step = step_factor * (y_ref / n) * min(1.0 / max(abs(math.sin(start_shock["phi"])), 1e-9), 1.5)
         fit = fit_shock(up, wall, start_shock, front0, g, delta, step, x_end)
-        warnings += fit.warnings
+        chain.append((fit, +1))
+        while len(chain) <= max_reflections:
+            last, frame = chain[-1]
+            if last.fate != "axis":
+                break
+            nxt, info = reflect(last, frame, wall, g, delta, step, x_end)
+            if nxt is None:
+                if not last.reflection or last.reflection.get("regular"):
+                    warnings.append(f"shock {len(chain)}: {last.fate_detail}; {info}.")
+                break
+            chain.append((nxt, info))
+        else:
+            warnings.append(f"the march stops after {max_reflections} reflections.")
+        for f_, _ in chain:
+            warnings += f_.warnings
+    last_fit = chain[-1][0] if chain else None
     # --- assemble the points ---------------------------------------------
     D = net.data
     R, W = net.rows, net.W
@@ -182,7 +199,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         xb = _boundary_x(front0, fit.shock, fit.end)
         behind = D["x"][:R] > xb(D["y"][:R]) + 1e-12
         pvalid &= ~behind
-        if fit.fate != "exit" and fit.end is not None:
+        if fit.fate != "exit" and fit.end is not None and len(chain) == 1:
             # beyond the end of the tracked shock: drop what lies downstream of the C+ through its end point
             pvalid &= ~_downstream_of_cplus(D, pvalid, R, fit.end)
     if fit is None and coalescence is not None and coalescence.get("family") != "C-":
@@ -209,25 +226,48 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         sel = np.flatnonzero(cplus == b)
         sel = sel[np.argsort(cminus[sel])]
         polylines.append({k: flat[k][sel] for k in KEYS})
-    if fit is not None:
+    # regions behind each shock, in real coordinates, cut by the next shock of the chain
+    paths = []
+    for f_, frame in chain:
+        shp = {"x": f_.shock["x"], "y": f_.shock["y"] * frame}
+        if f_.end is not None and f_.fate == "axis":
+            shp = {"x": np.append(shp["x"], f_.end[0]), "y": np.append(shp["y"], f_.end[1] * frame)}
+        paths.append(shp)
+    for ci, (f_, frame) in enumerate(chain):
+        cut = None
+        if ci + 1 < len(chain) and paths[ci + 1]["x"].size >= 2:
+            py, px = paths[ci + 1]["y"], paths[ci + 1]["x"]
+            o = np.argsort(py)
+            cut = (py[o], px[o])
         prev_idx = None
-        for fi, F in enumerate(fit.fronts):
+        for fi, F0 in enumerate(f_.fronts):
+            F = {k: F0[k] for k in KEYS}
+            if frame == -1:
+                F = flip(F)
             m = F["x"].size
-            parts.append({k: F[k] for k in KEYS})
-            labs_p.append(np.full(m, 10_000_000 + fi, np.int64))
-            labs_m.append(np.asarray(F.get("cm", np.arange(m) + 20_000_000 + 1000 * fi), np.int64))
-            idx = np.arange(off, off + m)
+            keep = np.ones(m, bool)
+            if cut is not None:
+                keep = F["x"] <= np.interp(F["y"], cut[0], cut[1]) + 1e-12
+            idx = -np.ones(m, np.int64)
+            idx[keep] = np.arange(off, off + int(keep.sum()))
+            parts.append({k: F[k][keep] for k in KEYS})
+            labs_p.append(np.full(int(keep.sum()), 10_000_000 + 100_000 * ci + fi, np.int64))
+            labs_m.append(np.asarray(F0.get("cm", np.arange(m) + 20_000_000), np.int64)[keep] + 1_000_000 * ci)
             if fi >= 1 and prev_idx is not None:
-                org = fit.origin[fi - 1]
+                org = f_.origin[fi - 1]
                 for i in range(1, m - 2):
                     mm, mn = org[i], org[i + 1]
                     if mm >= 0 and mn >= 0:
-                        cl.append([prev_idx[mm], prev_idx[mn], idx[i + 1], idx[i]])
+                        q = [prev_idx[mm], prev_idx[mn], idx[i + 1], idx[i]]
+                        if min(q) >= 0:
+                            cl.append(q)
             prev_idx = idx
-            off += m
-            polylines.append({k: F[k] for k in KEYS})
-        wall_pts = {k: np.concatenate([wall_pts[k], [F[k][-1] for F in fit.fronts if F["x"].size > 1]])
-                    for k in KEYS}
+            off += int(keep.sum())
+            if keep.sum() >= 2:
+                polylines.append({k: F[k][keep] for k in KEYS})
+            if frame == +1 and m > 1 and keep[-1]:
+                for k in KEYS:
+                    wall_pts[k] = np.append(wall_pts[k], F[k][-1])
     allp = {k: np.concatenate([p[k] for p in parts]) for k in KEYS}
     # --- performance ------------------------------------------------------
     o = np.argsort(wall_pts["x"])
@@ -255,8 +295,8 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         cfi, me_1d, pe_1d = exitflow.ideal_vacuum_cf(area_ratio, g)
         summary["thrust_coefficient_ideal_1d"] = cfi
         summary["exit_mach_ideal_1d"] = me_1d
-        if cf is not None and fit is not None and fit.fate not in ("exit", "decays", "axis"):
-            warnings.append(f"the shock march stopped early ({fit.fate}); the thrust is not reported.")
+        if cf is not None and last_fit is not None and last_fit.fate not in ("exit", "decays", "axis"):
+            warnings.append(f"the shock march stopped early ({last_fit.fate}); the thrust is not reported.")
             cf = None
         summary["thrust_coefficient_vacuum"] = cf
         summary["thrust_ratio_to_ideal"] = (cf / cfi) if cf is not None else None
@@ -279,43 +319,55 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         warnings.append("the exit plane was not reached by the computed flow; no exit profile.")
     # --- shocks -------------------------------------------------------------
     shock_list = []
-    if fit is not None and fit.shock["x"].size >= 1:
-        sh = fit.shock
-        end = fit.end if fit.end is not None else (sh["x"][-1], sh["y"][-1])
-        xs_, ys_ = sh["x"], sh["y"]
-        if fit.end is not None and fit.fate == "axis":
+    for ci, (f_, frame) in enumerate(chain):
+        sh = f_.shock
+        if sh["x"].size < 1:
+            continue
+        end = f_.end if f_.end is not None else (sh["x"][-1], sh["y"][-1])
+        end = (end[0], end[1] * frame)
+        xs_, ys_ = sh["x"], sh["y"] * frame
+        if f_.end is not None and f_.fate == "axis":
             xs_, ys_ = np.append(xs_, end[0]), np.append(ys_, end[1])
         arrays = {"x": xs_, "y": ys_}
         for k in ("beta", "p2_p1", "p02_p01", "m1", "m2", "theta1"):
-            v = sh[k]
+            v = sh[k] * (frame if k == "theta1" else 1)
             arrays[k] = np.append(v, v[-1]) if xs_.size > v.size else v
         inside = arrays["x"] <= x_end
-        if fit.fate == "exit" and np.count_nonzero(inside) >= 1 and not np.all(inside):
+        if f_.fate == "exit" and np.count_nonzero(inside) >= 1 and not np.all(inside):
             # cut the written shock path at the exit plane
             j = int(np.flatnonzero(~inside)[0])
             u = (x_end - arrays["x"][j - 1]) / (arrays["x"][j] - arrays["x"][j - 1]) if j >= 1 else 0.0
             arrays = {k: np.append(v[:j], v[j - 1] + u * (v[j] - v[j - 1]) if j >= 1 else v[0]) for k, v in arrays.items()}
             end = (float(arrays["x"][-1]), float(arrays["y"][-1]))
         shocks.append(arrays)
+        fate, detail = f_.fate, f_.fate_detail
+        where = "axis" if frame == +1 else "wall"
+        if fate == "axis":
+            fate = where
+            if ci + 1 < len(chain):
+                fate = f"reflects_{where}"
+                detail += f"; it reflects regularly as shock {ci + 2}"
         entry = {
-            "start_x": float(sh["x"][0]), "start_y": float(sh["y"][0]),
+            "start_x": float(arrays["x"][0]), "start_y": float(arrays["y"][0]),
             "end_x": float(end[0]), "end_y": float(end[1]),
             "max_pressure_ratio": float(np.max(arrays["p2_p1"])) if arrays["p2_p1"].size else 1.0,
             "total_pressure_ratio": float(np.min(arrays["p02_p01"])) if arrays["p02_p01"].size else 1.0,
-            "family": "C-",
-            "fate": fit.fate,
-            "fate_detail": fit.fate_detail,
+            "family": "C-" if frame == +1 else "C+",
+            "fate": fate,
+            "fate_detail": detail,
             "beta_start_deg": float(np.degrees(arrays["beta"][0])) if arrays["beta"].size else None,
             "beta_end_deg": float(np.degrees(arrays["beta"][-1])) if arrays["beta"].size else None,
             "points": int(arrays["x"].size),
         }
-        if fit.reflection is not None:
-            entry["reflection"] = fit.reflection
+        if f_.reflection is not None:
+            entry["reflection"] = f_.reflection
+        if ci >= 1:
+            entry["reflected_from"] = ci
         shock_list.append(entry)
     if fit is not None and delta == 1:
         warnings.append("shock fitting in axisymmetric flow is not yet validated against a published case: "
                         "treat the shock path and strength as indicative.")
-    complete = fit is None or fit.fate == "exit"
+    complete = fit is None or last_fit.fate == "exit"
     if coalescence is not None and coalescence.get("family") != "C-":
         complete = False
     summary.update({

@@ -33,8 +33,15 @@ KEYS = rp.KEYS
 class UpstreamField:
     """The flow ahead of the shock: the unfolded cells of the shock-free net, plus uniform inflow."""
 
-    def __init__(self, net, ok, uniform=None):
-        self.net = net
+    def __init__(self, net=None, ok=None, uniform=None, vertices=None, gamma=None):
+        self.slack = 0.5  # how far outside a triangle (in barycentric units) a point may be read
+        self.uniform = uniform
+        if vertices is not None:  # triangles given directly: dict of (3, ntri) arrays
+            self.v = vertices
+            self.gamma = gamma
+            self.line0 = None
+            return
+        self.gamma = net.gamma
         D = net.data
         R, W = net.rows, net.W
         tris = []
@@ -51,12 +58,10 @@ class UpstreamField:
                   for k in KEYS}
         good = np.all(np.isfinite(self.v["mach"]), axis=0)
         self.v = {k: v[:, good] for k, v in self.v.items()}
-        self.uniform = uniform  # dict(state, x0, y0, mu) or None
-        self.slack = 0.5  # how far outside a triangle (in barycentric units) a point may be read
         self.line0 = (D["x"][0].copy(), D["y"][0].copy())
 
     def locate(self, x, y):
-        if self.uniform is not None:
+        if self.uniform is not None and self.line0 is not None:
             # upstream of the initial characteristic the stream is uniform
             lx, ly = self.line0
             order = np.argsort(ly)
@@ -87,7 +92,7 @@ class UpstreamField:
             w = np.clip(np.array([l1[k], l2[k], l3[k]]), 0.0, None)
             w = w / w.sum()
             st = {q: float(w @ self.v[q][:, k]) for q in KEYS}
-            st["mach"] = float(rp.mach_of_nu(np.array([st["nu"]]), self.net.gamma)[0])
+            st["mach"] = float(rp.mach_of_nu(np.array([st["nu"]]), self.gamma)[0])
             st["x"], st["y"] = float(x), float(y)
             return st
         return None
@@ -116,11 +121,13 @@ def _stack(points):
     return out
 
 
-def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_steps=4000):
+def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_steps=4000, lower=None,
+              lower_angle=None, lower_name="axis", x_offset=0.0):
     """March the shock from `start` (dict x, y, phi = shock direction, rad) behind `front0`.
 
     `front0` is the first known front behind the shock start (dict of arrays
-    from the shock to the wall; one point for a compression corner).
+    from the shock to the wall; one point for a compression corner).  `lower`
+    is the boundary the shock runs toward, y = lower(x) (default the axis y = 0).
     """
     F = {k: np.atleast_1d(np.asarray(front0[k], float)) for k in KEYS}
     label = [int(start.get("label0", 1_000_000))]
@@ -148,7 +155,7 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         for _it in range(3):
             pa = 0.5 * (phi + phi_new)
             xn, yn = xs + step * math.cos(pa), ys + step * math.sin(pa)
-            if yn <= 0.0:
+            if yn <= (0.0 if lower is None else float(lower(xn))):
                 hit_axis = True
                 break
             up = upstream.locate(xn, yn)
@@ -162,20 +169,35 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
                 break
             phi_new = up["theta"] - beta
         if hit_axis:
-            t = -ys / math.sin(phi)
-            end = (xs + t * math.cos(phi), 0.0)
+            if lower is None:
+                t = -ys / math.sin(phi)
+            else:  # a few secant steps for the meeting with the lower boundary
+                t0, t1 = 0.0, step
+                f0, f1 = ys - float(lower(xs)), ys + step * math.sin(phi) - float(lower(xs + step * math.cos(phi)))
+                for _ in range(30):
+                    if f1 == f0:
+                        break
+                    t0, t1, f0 = t1, t1 - f1 * (t1 - t0) / (f1 - f0), f1
+                    f1 = ys + t1 * math.sin(phi) - float(lower(xs + t1 * math.cos(phi)))
+                    if abs(f1) < 1e-13:
+                        break
+                t = t1
+            xe_ = xs + t * math.cos(phi)
+            end = (xe_, 0.0 if lower is None else float(lower(xe_)))
             fate = "axis"
-            refl = regular_reflection(sh, gamma) if sh["m2"] else {"regular": True, "m2": None}
+            tb = 0.0 if lower_angle is None else float(lower_angle(end[0]))
+            refl = regular_reflection(sh, gamma, tb) if sh["m2"] else {"regular": True, "m2": None}
             if refl["regular"] and refl.get("m2") is None:
-                detail = f"reaches the axis at x = {end[0]:.5g} at once (zero strength): the march stops there"
+                detail = f"reaches the {lower_name} at x = {end[0]:.5g} at once (zero strength)"
             elif refl["regular"]:
-                detail = (f"reaches the axis at x = {end[0]:.5g}; a regular reflection exists there "
-                          f"(reflected shock angle {refl['beta_reflected_deg']:.4g} deg, pressure ratio "
-                          f"{refl['p3_p2']:.4g}) but the reflected shock is not tracked: the march stops there")
+                detail = (f"reaches the {lower_name} at x = {end[0]:.5g}; a regular "
+                          f"reflection exists there (reflected shock angle {refl['beta_reflected_deg']:.4g} deg, "
+                          f"pressure ratio {refl['p3_p2']:.4g})")
             else:
-                detail = (f"reaches the axis at x = {end[0]:.5g}, where no regular reflection exists "
+                detail = (f"reaches the {lower_name} at x = {end[0]:.5g}, where no regular reflection exists "
                           "(a Mach reflection would form): the march stops there")
-            warnings.append("shock " + detail + ".")
+            if not refl["regular"]:
+                warnings.append("shock " + detail + ".")
             break
         if status != "ok":
             end = (xs, ys)
@@ -255,14 +277,18 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
                     reflection=refl, origin=origin, merged=merged)
 
 
-def regular_reflection(sh, gamma):
-    """Whether a regular reflection of the last shock point exists at the axis (NACA Report 1135 theta_max)."""
-    from moc.flow import max_deflection
+def regular_reflection(sh, gamma, boundary_angle=0.0):
+    """Whether a regular reflection of the last shock point exists at the boundary (NACA Report 1135 theta_max).
+
+    The flow behind the incident shock (theta1 - deflection) must be turned
+    back parallel to the boundary (angle `boundary_angle`).
+    """
+    from moc.flow import max_deflection, oblique_shock
 
     m2 = sh["m2"][-1]
-    # the flow behind the incident shock (theta1 - deflection) must be turned back to theta = 0
-    dfl = max(sh["deflection"][-1] - sh["theta1"][-1], 0.0)
-    out = {"m2": m2, "deflection_deg": math.degrees(dfl)}
+    th2 = sh["theta1"][-1] - sh["deflection"][-1]
+    dfl = boundary_angle - th2
+    out = {"m2": m2, "deflection_deg": math.degrees(dfl), "theta2_deg": math.degrees(th2)}
     if m2 <= 1.0:
         out["regular"] = False
         return out
@@ -270,9 +296,7 @@ def regular_reflection(sh, gamma):
     out["theta_max_deg"] = math.degrees(float(tmax))
     out["regular"] = bool(dfl <= float(tmax))
     if out["regular"]:
-        from moc.flow import oblique_shock
-
-        s = oblique_shock(m2, dfl, gamma)
+        s = oblique_shock(m2, max(dfl, 0.0), gamma)
         out["beta_reflected_deg"] = math.degrees(float(s.beta))
         out["p3_p2"] = float(s.p2_p1)
     return out

@@ -97,12 +97,12 @@ def _mu(mach):
 
 
 def source(theta, mu, y, delta):
-    """delta sin(mu) sin(theta) / y, with the axis limit taken as 0 where y is 0 (caller averages)."""
+    """delta sin(mu) sin(theta) / y, 0 where y is 0 (the caller averages); even in (y, theta) -> (-y, -theta)."""
     if delta == 0:
         return np.zeros(np.broadcast(theta, mu, y).shape)
     with np.errstate(divide="ignore", invalid="ignore"):
         s = np.sin(mu) * np.sin(theta) / y
-    return np.where(y > 0, s, 0.0)
+    return np.where(y != 0, s, 0.0)
 
 
 def _intersect(xa, ya, aa, xb, yb, ab):

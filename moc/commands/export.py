@@ -40,13 +40,11 @@ def add_arguments(p):
     m.add_argument("--plume-height", type=float, metavar="LEN", help="plume region height from the axis (default 3 exit radii)")
     m.add_argument("--plume-axial-cells", type=int, metavar="N", help="plume cells downstream of the exit (default 60)")
     m.add_argument("--plume-radial-cells", type=int, metavar="N", help="plume cells above the lip (default 40)")
-    p.epilog = None
-    p.formatter_class = __import__("argparse").RawDescriptionHelpFormatter
+    # the command line gives every command a raw-text description: the format list goes there
     p.description = HELP + "\n\n" + _format_help() + (
         "\n\nEvery file is written to a temporary name and renamed when all formats succeeded; existing files are "
         "kept unless --force.\nCAUTION: exported hardware geometry must be verified against local codes and a "
         "licensed engineering review.")
-    p.epilog = "example:\n  " + "\n  ".join(EXAMPLE.strip().splitlines())
 
 
 OPTION_NAMES = ("chord_tolerance", "segments", "width", "sector_angle", "sector_segments", "axial_cells",

@@ -13,7 +13,8 @@ colour-vision-deficiency-friendly ``cividis`` map (Nunez, Anderton and
 Renslow, PLOS ONE 13(7), 2018).
 
 Public API: plot_net, plot_mach_field, plot_wall, plot_distributions,
-plot_exit, plot_shocks, figure_for, save_figure, overview, FIGURES.
+plot_exit, plot_shocks, plot_overview, figure_for, unavailable,
+triangulation, coalescence_point, save_figure, overview, FIGURES, SIZES.
 """
 
 from __future__ import annotations
@@ -596,9 +597,9 @@ def unavailable(result, name):
         ey, em = _arr(result.exit, "y"), _arr(result.exit, "mach")
         if ey.size < 2 or em.size != ey.size:
             return "the result has no exit profile"
-    if name == "wall" and _arr(result.wall, "x").size < 2:
+    if name in ("wall", "overview") and _arr(result.wall, "x").size < 2:
         return "the result has no wall contour"
-    if name in ("net", "mach") and result.net.size < 3:
+    if name in ("net", "mach", "overview") and result.net.size < 3:
         return "the result has no characteristic net"
     if name == "distributions":
         ok = [(_arr(d, "x").size > 0 and _arr(d, "x").size == _arr(d, "mach").size) for d in (result.wall, result.axis)]
@@ -610,9 +611,11 @@ def unavailable(result, name):
 
 
 def figure_for(result, name):
-    """Return a new Figure of the named kind (one of FIGURES)."""
+    """Return a new Figure of the named kind (one of FIGURES, or 'overview')."""
+    if name == "overview":
+        return plot_overview(result)
     if name not in _PLOTTERS:
-        raise InputError(f"unknown figure {name!r}; choose from {', '.join(FIGURES)} or all.")
+        raise InputError(f"unknown figure {name!r}; choose from {', '.join(FIGURES)}, overview or all.")
     return _PLOTTERS[name](result)
 
 
@@ -654,8 +657,8 @@ def _metadata(fmt):
     return {"Creator": "moc"}
 
 
-def overview(result, path, force=True, dpi=130):
-    """Write one image of the net over the Mach field (top) and the dimensioned wall (bottom)."""
+def plot_overview(result):
+    """The Mach field over the net (top) and the dimensioned wall (bottom) in one Figure."""
     fig = Figure(figsize=SIZES["overview"], layout="constrained")
     a1, a2 = fig.subplots(2, 1)
     if result.net.size >= 3:
@@ -663,4 +666,9 @@ def overview(result, path, force=True, dpi=130):
     else:
         plot_net(result, ax=a1)
     plot_wall(result, ax=a2)
-    return save_figure(fig, path, force=force, dpi=dpi)
+    return fig
+
+
+def overview(result, path, force=True, dpi=130):
+    """Write the overview image (see plot_overview) atomically; return the path."""
+    return save_figure(plot_overview(result), path, force=force, dpi=dpi)

@@ -243,6 +243,9 @@ def test_cli_plot_all_formats(tmp_path, capsys):
     assert svg.lstrip().startswith("<?xml") and "</svg>" in svg
     assert main(["plot", str(d), "--what", "wall", "--format", "pdf", "-o", str(out)]) == 0
     assert (out / "wall.pdf").read_bytes().startswith(b"%PDF")
+    assert main(["plot", str(d), "--what", "overview", "-o", str(out), "--dpi", "30"]) == 0
+    h, w = mpimg.imread(out / "overview.png").shape[:2]
+    assert (w, h) == (300, 240)  # 10 x 8 inches at 30 dpi
     assert main(["plot", str(d), "--what", "bogus", "-o", str(out)]) == 2
     assert "unknown figure" in capsys.readouterr().err
     assert main(["plot", str(tmp_path / "nothing"), "-o", str(out)]) == 2

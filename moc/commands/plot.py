@@ -12,7 +12,8 @@ EXAMPLE = (
 def add_arguments(p):
     p.add_argument("result_dir", metavar="RESULT_DIR", help="directory written by 'moc design' or 'moc analyze'")
     p.add_argument("--what", "-w", default="all",
-                   help="comma-separated figures: net, mach, wall, distributions, exit, shocks, or all "
+                   help="comma-separated figures: net, mach, wall, distributions, exit, shocks, overview (the two-panel "
+                        "image 'moc design' writes), or all "
                         "(default all; 'all' leaves out what the result cannot draw, e.g. shocks when it has none)")
     p.add_argument("--format", "-f", dest="fmt", default="png", choices=["png", "svg", "pdf"],
                    help="image format (default png)")
@@ -45,12 +46,13 @@ def parse_what(text, result=None):
                     skipped.append((f, why))
                 else:
                     chosen.append(f)
-        elif w in FIGURES:
+        elif w in FIGURES or w == "overview":
             chosen.append(w)
         else:
-            raise InputError(f"unknown figure {w!r} in --what; choose from {', '.join(FIGURES)} or all.")
+            raise InputError(f"unknown figure {w!r} in --what; choose from {', '.join(FIGURES)}, overview or all.")
     skipped = [(f, why) for f, why in skipped if f not in chosen]
-    return [f for f in FIGURES if f in chosen], skipped
+    order = list(FIGURES) + ["overview"]
+    return [f for f in order if f in chosen], skipped
 
 
 def run(args):

@@ -77,7 +77,7 @@ def run(args):
     written = []
     for k, (n, path) in enumerate(zip(names, paths)):
         if show:
-            print(f"\r  drawing {n} ({k + 1}/{len(names)})", end="", file=sys.stderr, flush=True)
+            print(f"\r  drawing {n} ({k + 1}/{len(names)})".ljust(40), end="", file=sys.stderr, flush=True)
         fig = plot.figure_for(result, n)
         written.append(str(plot.save_figure(fig, path, force=args.force, dpi=args.dpi)))
     if show:

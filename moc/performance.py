@@ -27,9 +27,9 @@ import math
 import numpy as np
 
 from moc.errors import InputError
-from moc.flow import area_ratio as _area_ratio
 from moc.flow import choked_mass_flow_parameter, mach_from_area_ratio, pressure_ratio
 from moc.flow._checks import check_gamma
+from moc.design.truncate import exit_fluxes  # noqa: F401  (the thrust integral; re-exported)
 
 
 def _delta(geometry):
@@ -71,48 +71,6 @@ def ideal_thrust_coefficient(area_ratio, gamma=1.4, ambient_ratio=None):
     mom = math.sqrt(2.0 * g * g / (g - 1.0) * (2.0 / (g + 1.0)) ** ((g + 1.0) / (g - 1.0))
                     * (1.0 - pe ** ((g - 1.0) / g)))
     return mom + eps * (pe - (pa or 0.0))
-
-
-def exit_fluxes(x, y, theta, mach, gamma, geometry):
-    """Integrals across a curve from the axis to the lip (points in order, trapezoidal rule).
-
-    Returns dict: momentum (x-momentum flux / (p0 A_t)), pressure (INT p/p0 dA / A_t),
-    area (projected exit area / A_t), mass (mass flow over rho* a* A_t, i.e. the
-    one-dimensional sonic flow through the throat), mass_velocity (mass-averaged u / a*).
-    """
-    g = check_gamma(gamma)
-    d = _delta(geometry)
-    x, y, th, m = (np.asarray(v, float) for v in (x, y, theta, mach))
-    if x.ndim != 1 or x.size < 2 or not (x.shape == y.shape == th.shape == m.shape):
-        raise InputError("an exit curve needs at least two points with x, y, theta and Mach of equal length.")
-    if not (np.all(np.isfinite(x)) and np.all(np.isfinite(y)) and np.all(np.isfinite(th)) and np.all(np.isfinite(m))):
-        raise InputError("the exit curve has non-finite values; the flowfield does not reach the exit.")
-    if abs(y[0]) > 1e-9 or np.any(np.diff(y) <= 0):
-        raise InputError("the exit curve must start on the axis (y = 0) and rise monotonically to the lip.")
-    p = pressure_ratio(m, g)
-    dy, dx = np.diff(y), np.diff(x)
-    w = (1.0 + d) * y**d
-    c, s = np.cos(th), np.sin(th)
-
-    def seg(f_dy, f_dx=None):
-        # trapezoid on each segment of the integrand times the radius weight
-        v = 0.5 * ((f_dy * w)[1:] + (f_dy * w)[:-1]) * dy
-        if f_dx is not None:
-            v = v - 0.5 * ((f_dx * w)[1:] + (f_dx * w)[:-1]) * dx
-        return float(np.sum(v))
-
-    gm2 = g * m * m * p
-    rho_v = 1.0 / _area_ratio(m, g)       # rho V / (rho* a*), NACA Report 1135
-    a_ratio = np.sqrt((g + 1.0) / 2.0 * m * m / (1.0 + 0.5 * (g - 1.0) * m * m))  # V / a*
-    mass = seg(rho_v * c, rho_v * s)
-    mom = seg(gm2 * c * c, gm2 * c * s)
-    return {
-        "momentum": mom,
-        "pressure": seg(p),
-        "area": float(y[-1] ** (1 + d)),
-        "mass": mass,
-        "mass_velocity": seg(rho_v * a_ratio * c * c, rho_v * a_ratio * c * s) / mass,
-    }
 
 
 def wetted_area(x, y, geometry):

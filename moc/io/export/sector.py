@@ -2,10 +2,10 @@
 
 The 2-D net (x, r) is turned about the x axis through `sector_angle`
 degrees in `sector_segments` steps: (x, r) -> (x, r cos a, r sin a).  Cells
-off the axis become hexahedra (quads) or wedges (triangles); cells touching
-the axis are split into triangles, which become wedges, pyramids or
-tetrahedra as none, one or two of their points lie on the axis (points on
-the axis are not repeated).  Cells are handed to meshio in meshio's node order,
+off the axis become hexahedra (quads) or wedges (triangles); a quad with an
+edge on the axis becomes a wedge; other cells touching the axis are split
+into triangles, which become pyramids or tetrahedra as one or two of their
+points lie on the axis (points on the axis are not repeated).  Cells are handed to meshio in meshio's node order,
 checked per cell by the sign of its volume and reordered if needed: the
 hexahedron's base 0-3 and the pyramid's base turn counter-clockwise about
 the direction to the opposite face or apex; the wedge's base 0-2 turns the
@@ -98,6 +98,18 @@ def revolve(mesh, angle_deg, segments):
             blocks["hexahedron"].append(np.concatenate(
                 [gid[k0][:, q].transpose(1, 0, 2), gid[k1][:, q].transpose(1, 0, 2)], axis=2))
             t = c[touch]
+            oa = on_axis[t]
+            pair = oa & np.roll(oa, -1, axis=1)          # corners k and k+1 both on the axis
+            edge = (oa.sum(axis=1) == 2) & pair.any(axis=1)
+            e = t[edge]
+            if len(e):  # an edge on the axis: a wedge (a, d0, d1 | b, c0, c1) with a, b the axis points
+                s = np.argmax(pair[edge], axis=1)
+                e = np.take_along_axis(e, (np.arange(4)[None, :] + s[:, None]) % 4, axis=1)
+                e0 = gid[k0][:, e].transpose(1, 0, 2)
+                e1 = gid[k1][:, e].transpose(1, 0, 2)
+                blocks["wedge"].append(np.stack(
+                    [e0[..., 0], e0[..., 3], e1[..., 3], e0[..., 1], e0[..., 2], e1[..., 2]], axis=2))
+            t = t[~edge]
             tris.append(np.concatenate([t[:, [0, 1, 2]], t[:, [0, 2, 3]]]))
         else:
             tris.append(c)

@@ -71,6 +71,9 @@ def test_json_output_and_default_directory(saved, capsys):
     doc = json.loads(capsys.readouterr().out)
     assert doc["unit"] == "mm" and doc["files"]["csv"].endswith("export/wall_points.csv")
     assert (saved / "export" / "wall_points.csv").exists()
+    # the result file itself may be given: files go beside it, into export/
+    assert main(["export", str(saved / "result.npz"), "--format", "stl", "-q"]) == 0
+    assert (saved / "export" / "wall.stl").exists()
 
 
 @pytest.mark.parametrize("extra,needle", [

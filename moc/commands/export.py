@@ -67,7 +67,8 @@ def run(args):
     if fmt == "all" and (result.summary or {}).get("geometry") == "planar":
         formats = [f for f in formats if f != "sector-vtu"]
     options = {k: getattr(args, k) for k in OPTION_NAMES if getattr(args, k, None) is not None}
-    out = Path(args.output) if args.output else Path(args.result) / "export"
+    src = Path(args.result)
+    out = Path(args.output) if args.output else (src if src.is_dir() else src.parent) / "export"
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")  # meshio's chatter; our own notes say what matters
         report = export(result, formats, out, units=args.units, options=options, force=args.force)

@@ -43,3 +43,22 @@ def test_reference_doc_is_current():
 
     doc = Path(__file__).parents[1].joinpath("docs", "case-file.md").read_text()
     assert case.reference_markdown().strip() in doc
+
+
+def test_atomic_write_keeps_usual_mode_and_refuses_overwrite(tmp_path):
+    # common practice: files get the mode the umask gives (not owner-only), and an
+    # existing file is kept unless forced.
+    import os
+
+    from moc.errors import FileExistsRefusal
+    from moc.io.atomic import atomic_write
+
+    p = tmp_path / "a.txt"
+    atomic_write(p, "one")
+    umask = os.umask(0)
+    os.umask(umask)
+    assert p.stat().st_mode & 0o777 == 0o666 & ~umask
+    with pytest.raises(FileExistsRefusal, match="--force"):
+        atomic_write(p, "two", force=False)
+    assert p.read_text() == "one"
+    assert [q.name for q in tmp_path.iterdir()] == ["a.txt"]

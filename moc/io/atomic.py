@@ -39,6 +39,10 @@ def atomic_path(path, force=True):
                                dir=path.parent)
     os.close(fd)
     tmp = Path(tmp)
+    # mkstemp creates the file owner-only (0600); give it the usual mode from the umask
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp, 0o666 & ~umask)
     try:
         yield tmp
         os.replace(tmp, path)

@@ -15,7 +15,7 @@ import numpy as np
 from moc.analysis import exitflow
 from moc.analysis.coalescence import first_crossing, unfolded_cells
 from moc.analysis.march import march
-from moc.analysis.reflect import flip, reflect
+from moc.analysis.reflect import flip, reflect, region_triangle_index
 from moc.analysis.shockfit import UpstreamField, fit_shock
 from moc.errors import InputError
 from moc.flow import oblique_shock, prandtl_meyer, shock_angle
@@ -217,6 +217,14 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         q = [index[a_, d_], index[a_ + 1, d_ + 1], index[a_ + 1, d_], index[a_, d_ - 1]]
         if min(q) >= 0:
             cl.append(q)
+        if d_ == 1:  # the triangle against the axis
+            q = [index[a_, 0], index[a_ + 1, 1], index[a_ + 1, 0]]
+            if min(q) >= 0 and a_ + 1 < R:
+                cl.append(q + [q[-1]])
+        if d_ == W - 1 and a_ + 1 < R:  # the triangle against the wall
+            q = [index[a_, W - 1], index[a_ + 1, W], index[a_, W]]
+            if min(q) >= 0:
+                cl.append(q + [q[-1]])
     parts = [flat]
     labs_p, labs_m = [cplus], [cminus]
     off = ia1.size
@@ -240,6 +248,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
             o = np.argsort(py)
             cut = (py[o], px[o])
         prev_idx = None
+        gidx = []
         for fi, F0 in enumerate(f_.fronts):
             F = {k: F0[k] for k in KEYS}
             if frame == -1:
@@ -253,18 +262,16 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
             parts.append({k: F[k][keep] for k in KEYS})
             labs_p.append(np.full(int(keep.sum()), 10_000_000 + 100_000 * ci + fi, np.int64))
             labs_m.append(np.asarray(F0.get("cm", np.arange(m) + 20_000_000), np.int64)[keep] + 1_000_000 * ci)
-            if fi >= 1 and prev_idx is not None:
-                org = f_.origin[fi - 1]
-                for i in range(1, m - 2):
-                    mm, mn = org[i], org[i + 1]
-                    if mm >= 0 and mn >= 0:
-                        q = [prev_idx[mm], prev_idx[mn], idx[i + 1], idx[i]]
-                        if min(q) >= 0:
-                            cl.append(q)
+            gidx.append(idx)
             prev_idx = idx
             off += int(keep.sum())
             if keep.sum() >= 2:
                 polylines.append({k: F[k][keep] for k in KEYS})
+            if fi == len(f_.fronts) - 1:
+                for t in region_triangle_index(f_.fronts, f_.origin):
+                    q = [int(gidx[kk][ii]) for kk, ii in t]
+                    if min(q) >= 0:
+                        cl.append(q + [q[-1]])
             if frame == +1 and m > 1 and keep[-1]:
                 for k in KEYS:
                     wall_pts[k] = np.append(wall_pts[k], F[k][-1])

@@ -55,8 +55,8 @@ def flip(d):
     return out
 
 
-def region_triangles(fronts, origin):
-    """Triangles (dict of (3, n) arrays of point values) covering the region swept by the fronts."""
+def region_triangle_index(fronts, origin):
+    """Triangles ((front, point) x 3) covering the region swept by consecutive fronts behind a shock."""
     tri = []
     for k in range(1, len(fronts)):
         A, N, o = fronts[k - 1], fronts[k], origin[k - 1]
@@ -77,6 +77,12 @@ def region_triangles(fronts, origin):
             for j in range(o[last], nA - 1):
                 tri.append(((k, last), (k - 1, j), (k - 1, j + 1)))
             tri.append(((k, last), (k - 1, nA - 1), (k, nN - 1)))
+    return tri
+
+
+def region_triangles(fronts, origin):
+    """Triangles (dict of (3, n) arrays of point values) covering the region swept by the fronts."""
+    tri = region_triangle_index(fronts, origin)
     if not tri:
         return None
     return {q: np.array([[fronts[t[i][0]][q][t[i][1]] for t in tri] for i in range(3)]) for q in KEYS}

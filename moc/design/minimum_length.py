@@ -88,9 +88,14 @@ def _kernel(theta_c, n, gamma, delta, power):
     return march_fan(0.0, 1.0, th, th, gamma, delta), th
 
 
+_LAST = {}  # the latest kernel marched by _axis_residual, reused by the designer
+
+
 def _axis_residual(theta_c, n, gamma, delta, power, nue):
-    (grid, _, axn), _ = _kernel(theta_c, n, gamma, delta, power)
-    return float(axn[-1] - nue)
+    out = _kernel(theta_c, n, gamma, delta, power)
+    _LAST.clear()
+    _LAST[(float(theta_c), n, gamma, delta, power)] = out
+    return float(out[0][2][-1] - nue)
 
 
 def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-11):
@@ -212,7 +217,9 @@ def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
 def _design(me, g, delta, n, nue):
     power = CLUSTER_POWER
     theta_c = corner_angle(me, g, delta, n, power)
-    (kgrid, axis_x, axis_nu), fan = _kernel(theta_c, n, g, delta, power)
+    cached = _LAST.pop((float(theta_c), n, g, delta, power), None)
+    _LAST.clear()
+    (kgrid, axis_x, axis_nu), fan = cached or _kernel(theta_c, n, g, delta, power)
     nu_e = axis_nu[-1]  # = nue to the root tolerance (exactly for planar)
     mu_e = float(mu_of_nu(np.array([nu_e]), g)[0])
 
@@ -224,7 +231,14 @@ def _design(me, g, delta, n, nue):
     xE = kgrid.x[n - 1, n - 1]
     cplus = Points(xE + ye / math.tan(mu_e), ye, np.zeros(m + 1), np.full(m + 1, nu_e), np.full(m + 1, mu_e))
     cminus = kgrid.cminus(n - 1)  # ray n-1 from i = 0 (by the corner) to E (i = n-1)
-    ggrid = goursat(cminus, cplus, g, delta)
+    F0 = throat_flux(delta)
+    kcum, _ = cumulative_flux(kgrid.x, kgrid.y, kgrid.mu, g, delta)
+    ggrid = goursat(cminus, cplus, g, delta, flux0=kcum[:, n - 1], flux_target=F0)
+    if ggrid.shape != (n, m + 1):  # pruned fronts may end early: pad to the full block
+        pad = Grid.empty(n, m + 1)
+        for k in ("x", "y", "theta", "nu", "mu"):
+            getattr(pad, k)[: ggrid.shape[0], : ggrid.shape[1]] = getattr(ggrid, k)
+        ggrid = pad
 
     # one grid [i, j]: kernel columns 0..n-1, turning-region columns n..n+m-1
     full = Grid.empty(n, n + m)
@@ -232,7 +246,6 @@ def _design(me, g, delta, n, nue):
         A = getattr(full, k)
         A[:, :n] = getattr(kgrid, k)
         A[:, n:] = getattr(ggrid, k)[:, 1:]
-    F0 = throat_flux(delta)
     wall = mass_balance_wall(full, g, delta, F0)
 
     # corner (start of the wall): downstream side of the fan

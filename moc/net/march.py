@@ -104,7 +104,7 @@ def march_fan(corner_x, corner_y, fan_theta, fan_nu, gamma, delta):
     return grid, np.array(ax.xs), np.array(ax.nus)
 
 
-def goursat(cminus, cplus, gamma, delta):
+def goursat(cminus, cplus, gamma, delta, flux0=None, flux_target=None):
     """Solve the characteristic initial-value (Goursat) problem.
 
     `cminus`: Points along a C- characteristic, from its far end to the
@@ -116,34 +116,71 @@ def goursat(cminus, cplus, gamma, delta):
     grid[i+1, k] (C-).  Source: method of characteristics for hyperbolic
     systems, Goursat problem (Courant and Friedrichs, Supersonic Flow and
     Shock Waves, 1948, from memory).
+
+    Wall-bounded use: with `flux_target` (and `flux0`, the mass flux already
+    crossed by each C+ before cminus[i], from the axis) a C+ stops one point
+    after its mass flux from the axis exceeds `flux_target` (the wall
+    streamline lies before that point), and the front is trimmed from its
+    far-end side while its C+ lines are finished: about half of the
+    quadrilateral lies beyond the wall of a nozzle and is not computed.
     """
+    from moc.net.wall import flux_integrand
+
     ni, nk = len(cminus), len(cplus)
     if ni < 2 or nk < 2:
         raise InputError("the Goursat problem needs at least two points on each bounding characteristic.")
     if not (abs(cminus.x[-1] - cplus.x[0]) <= 1e-9 and abs(cminus.y[-1] - cplus.y[0]) <= 1e-9):
         raise InputError("the two bounding characteristics of a Goursat problem must meet: "
                          "the last C- point and the first C+ point must coincide.")
+    prune = flux_target is not None
+    if prune:
+        cum = np.array(flux0, dtype=float) if flux0 is not None else np.zeros(ni)
+        cum = cum.copy()
+        fprev = flux_integrand(cminus.y, cminus.mu, gamma, delta)
+        xprev, yprev = cminus.x.copy(), cminus.y.copy()
+        finished = cum >= flux_target
     fronts = [(np.array([ni - 1]), np.array([0]), cplus.take(slice(0, 1)))]
     front = cplus.take(slice(0, 1))
     lo, hi = ni - 1, ni - 1
     for d in range(1, ni + nk - 1):
+        if prune:
+            # drop the leading points whose C+ is finished (no later point needs them)
+            ii = np.arange(lo, hi + 1)
+            drop = int(np.argmin(finished[ii])) if not finished[ii].all() else ii.size
+            if drop:
+                front = front.take(slice(drop, None))
+                lo += drop
         parts = []
-        if ni - 1 - d >= 0:
-            parts.append(cminus.take(slice(ni - 1 - d, ni - d)))
-            lo_new = ni - 1 - d
-        else:
-            lo_new = lo
+        lo_new = lo
+        if ni - 1 - d >= 0 and (not prune or not finished[ni - 1 - d]):
+            if lo == ni - d:  # the new C- point continues the front at its start
+                parts.append(cminus.take(slice(ni - 1 - d, ni - d)))
+                lo_new = ni - 1 - d
         if len(front) >= 2:
             parts.append(_pairs(front, gamma, delta))
-        if d <= nk - 1:
+        if d <= nk - 1 and hi == ni - 1:
             parts.append(cplus.take(slice(d, d + 1)))
             hi_new = ni - 1
         else:
             hi_new = hi - 1
+        if not parts:
+            break
         front = concat(*parts)
         lo, hi = lo_new, hi_new
+        if hi < lo:
+            break
         ii = np.arange(lo, hi + 1)
         fronts.append((ii, ii + d - (ni - 1), front))
+        if prune:
+            f = flux_integrand(front.y, front.mu, gamma, delta)
+            dl = np.hypot(front.x - xprev[ii], front.y - yprev[ii])
+            inc = 0.5 * (f + fprev[ii]) * dl
+            inc = np.where(ii == ni - 1 - d, 0.0, inc)  # an injected start point adds nothing
+            cum[ii] += inc
+            fprev[ii], xprev[ii], yprev[ii] = f, front.x, front.y
+            finished[ii] |= cum[ii] >= flux_target
+            if finished.all():
+                break
     return Grid.from_fronts(fronts)
 
 

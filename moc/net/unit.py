@@ -29,7 +29,7 @@ from moc.errors import ComputationError
 from moc.net._pm import _nu_t, mu_of_nu, pm_constants
 from moc.net.points import Points
 
-TOL = 1e-10
+TOL = 1e-9
 MAXITER = 40
 #: below this change the iteration is accepted once it stops contracting (round-off floor,
 #: reached where the two characteristics are nearly tangent, M -> 1)

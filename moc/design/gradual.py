@@ -92,26 +92,46 @@ def _line_points(line, g):
 
 
 def _kernel(line_pts, contour, g, delta, nue, x_end0):
-    """March the kernel far enough that a wall C- reaches the axis beyond nu_e.
+    """March the kernel just far enough that a wall C- reaches the axis beyond nu_e.
 
-    Returns grid and the list of wall-started C- columns ending on the axis:
-    (column j, top row, bottom row, axis nu)."""
-    x_end = x_end0
-    for _ in range(8):
-        try:
-            grid = march_from_line(line_pts, g, delta, wall=contour, x_end=x_end)
-        except ComputationError as exc:
-            raise ComputationError(
-                f"marching the kernel downstream of the throat's initial-value line failed ({exc}) "
-                "Try another number of characteristics, throat curvature or inflection angle."
-            ) from None
+    The march is repeated with a growing end (x 1.15 each time): downstream of
+    the attachment point the kernel's straight wall is not part of the nozzle,
+    and marching it far can run into the compression its tangency sends to
+    the axis.  Returns the grid and the wall-started C- columns ending on the
+    axis: (column j, top row, bottom row, axis nu)."""
+    def run(x_end):
+        grid = march_from_line(line_pts, g, delta, wall=contour, x_end=x_end)
         cols = _wall_columns(grid, contour)
-        if cols and cols[-1][3] > nue:
+        return grid, cols, len(cols) >= 2 and cols[-1][3] > nue
+
+    # fast: double the end until the axis passes nu_e; on a failure of the net,
+    # restart from the last good end with small steps
+    x_end, good, growth = x_end0, x_end0, 2.0
+    last_exc = None
+    for _ in range(80):
+        try:
+            grid, cols, done = run(x_end)
+        except ComputationError as exc:
+            last_exc = exc
+            if growth == 2.0:
+                growth, x_end = 1.1, good * 1.1
+                continue
+            break
+        if done:
             return grid, cols
-        x_end *= 2.0
+        good = x_end
+        x_end *= growth
+        if x_end > 1e3:
+            break
+    if last_exc is not None:
+        raise ComputationError(
+            f"marching the kernel downstream of the throat's initial-value line failed before the axis "
+            f"reached the exit Mach number ({last_exc}) Try another number of characteristics, throat "
+            "curvature or inflection angle."
+        )
     raise ComputationError(
         "the kernel did not reach the exit Mach number on the axis within "
-        f"x = {x_end / 2:.3g} throat units; choose a larger inflection angle."
+        f"x = {x_end:.3g} throat units; choose a larger inflection angle."
     )
 
 
@@ -200,7 +220,7 @@ def _design(me, g, delta, n, R, theta_a, solution, nue):
         )
     contour = _Contour(R, theta_a)
     pts = _line_points(line, g)
-    grid, cols = _kernel(pts, contour, g, delta, nue, contour.xt + 2.0)
+    grid, cols = _kernel(pts, contour, g, delta, nue, contour.xt + 0.5)
     ae, (jstar, tau) = _attachment(grid, cols, contour, nue, g, theta_a)
     F0 = line.mass_flow * throat_flux(delta)
     # flux along AE measured from A downward
@@ -346,7 +366,7 @@ def max_inflection_deg(exit_mach, gamma=1.4, geometry="axisymmetric", n=50, thro
     nue = prandtl_meyer(me, g)
     line = _throat.initial_line(R, g, "axisymmetric" if delta else "planar", throat_solution, n=n)
     contour = _Contour(R, 0.5 * nue)
-    grid, cols = _kernel(_line_points(line, g), contour, g, delta, nue, contour.xt + 2.0)
+    grid, cols = _kernel(_line_points(line, g), contour, g, delta, nue, 0.5)
     ae, _ = _attachment(grid, cols, contour, nue, g, 0.5 * nue, strict=False)
     return float(np.degrees(ae.theta[0]))
 

@@ -127,3 +127,17 @@ def test_sharp_cone_analysis_finishes(tmp_path):
     s = json.loads((out / "summary.json").read_text())
     assert s["area_ratio"] == pytest.approx(4.0)
     assert "caution" in s and "licensed engineer" in s["caution"]
+
+
+def test_designed_axisymmetric_nozzle_agrees_with_its_design():
+    # Source: NACA Report 1135 (closed form) A/A*(2.4) = 2.40310; mass conservation through the exit plane.
+    from moc.design import design_minimum_length
+
+    res = design_minimum_length(2.4, gamma=1.4, geometry="axisymmetric", n=100)
+    w = res.wall
+    r = analyze(wall_from_points(w["x"], w["y"], slope=np.tan(w["theta"])), 1.4, "axisymmetric", n=40)
+    s = r.summary
+    assert s["shock_free"] is True
+    assert s["area_ratio"] == pytest.approx(2.40310, abs=1e-3)
+    assert s["exit_mach"] == pytest.approx(2.4, abs=1e-3)
+    assert s["mass_flow_ratio"] == pytest.approx(1.0, abs=1e-3)

@@ -130,7 +130,7 @@ def test_turning_limit_is_stated():
     assert math.degrees(prandtl_meyer(18.0, g)) / 2 > 90
     with pytest.raises(MachError, match="Mach angle"):
         design_minimum_length(19.2, 1.4, "planar")
-    r = design_minimum_length(19.0, 1.4, "axisymmetric", 60)  # just inside the stated limit
+    r = design_minimum_length(19.0, 1.4, "axisymmetric", 80)  # just inside the stated limit
     # Source: NACA Report 1135 A/A*(Me) (mass conservation)
     assert abs(r.summary["area_ratio"] / area_ratio(19.0, 1.4) - 1) < 1e-9
     assert r.summary["mass_flow_error"] < 0.02
@@ -164,10 +164,10 @@ def test_planar_convergence_to_isentropic_area_ratio(me, g):
 
 @pytest.mark.parametrize("me, g", [(2.4, 1.4), (3.0, 1.2), (4.0, 1.4)])
 def test_axisymmetric_convergence(me, g):
-    # Source: NACA Report 1135 A/A*(Me) (mass conservation, as above).  The axisymmetric
-    # wall angle rises steeply just after the corner (measured, see docs/minimum-length.md),
-    # which makes the streamline-traced lip converge irregularly; the mass balance across
-    # the characteristics and the gap between the two walls converge at order >= 1.5.
+    # Source: NACA Report 1135 A/A*(Me) (mass conservation, as above).  With the fan
+    # clustered toward the sonic end (docs/minimum-length.md) the axisymmetric design
+    # converges at second order too: streamline-traced lip, mass balance across the
+    # characteristics and the gap between the two walls.
     res = [design_minimum_length(me, g, "axisymmetric", int(n)).summary for n in NS]
     ar = area_ratio(me, g)
     for s in res:
@@ -176,10 +176,11 @@ def test_axisymmetric_convergence(me, g):
     e_ar = np.array([s["area_ratio_streamline"] / ar - 1 for s in res])
     e_m = [s["mass_flow_error"] for s in res]
     e_w = [s["wall_streamline_difference"] for s in res]
-    assert _observed_order(NS, e_m) >= 1.5, e_m
-    assert _observed_order(NS, e_w) >= 1.5, e_w
-    assert np.all(np.abs(e_ar) < 2e-3) and abs(e_ar[-1]) < 1e-4, e_ar
-    # the corner angle converges too (secant on the kernel, second order in 1/n)
+    assert _observed_order(NS, e_ar) >= 1.8, e_ar
+    assert np.all(np.abs(np.diff(np.log2(np.abs(e_ar)))) > 1.5), e_ar
+    assert _observed_order(NS, e_m) >= 1.8, e_m
+    assert _observed_order(NS, e_w) >= 1.8, e_w
+    # the corner angle converges too (secant on the kernel at each n)
     tc = np.array([s["corner_angle_deg"] for s in res])
     d = np.abs(np.diff(tc))
     assert d[-1] < d[0] / 8

@@ -39,7 +39,7 @@ from moc.net.wall import cumulative_flux, mass_balance_wall, throat_flux, trace_
 from moc.result import Net, Result
 
 #: exponent p of the fan clustering h(t) = p t^p - (p-1) t^(p+1)
-CLUSTER_POWER = 6
+CLUSTER_POWER = 8
 GEOMETRIES = {"planar": 0, "axisymmetric": 1}
 #: smallest exit Mach angle accepted (deg): below it characteristics and streamlines
 #: are nearly parallel, the intersections of the net become ill-conditioned

@@ -121,6 +121,18 @@ def test_cone_thrust_tends_to_malina_divergence_factor():
     assert errs[1] < 6e-3
 
 
+def test_sharp_throat_cone_thrust_tends_to_malina_divergence_factor():
+    # Source: Malina (1940) (1 + cos a)/2 = 0.98296 at 15 deg; Sutton and Biblarz ideal C_F.  Sharp throat corner,
+    # area ratio 10: the wall ahead of the internal shock reaches the exit, so the thrust is reported.
+    lam = (1 + math.cos(math.radians(15.0))) / 2
+    errs = []
+    for n in (20, 40):
+        s = analyze(cone(15.0, 10.0, "axisymmetric"), 1.4, "axisymmetric", n=n).summary
+        errs.append(abs(s["thrust_coefficient_vacuum"] / _malina_cf(10.0, lam) - 1))
+    assert errs[1] < errs[0]
+    assert errs[1] < 3e-3
+
+
 def test_sharp_cone_analysis_finishes(tmp_path):
     out = tmp_path / "cone"
     assert main(["analyze", "--cone", "15", "--axisymmetric", "--area-ratio", "4", "-o", str(out), "--quiet"]) == 0

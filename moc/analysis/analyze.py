@@ -228,7 +228,14 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     parts = [flat]
     labs_p, labs_m = [cplus], [cminus]
     off = ia1.size
-    wall_pts = {k: D[k][:R, W][pvalid[:, W]] for k in KEYS}
+    # wall points ahead of the shock region: finite and upstream of its boundary (the fitted shock carries
+    # the effect of the fold; cells folded next to it do not reach the wall before the region behind it)
+    wsel = np.isfinite(D["mach"][:R, W])
+    if fit is not None:
+        wsel &= D["x"][:R, W] <= xb(D["y"][:R, W]) + 1e-12
+    elif coalescence is not None:
+        wsel &= D["x"][:R, W] <= coalescence["x"]
+    wall_pts = {k: D[k][:R, W][wsel] for k in KEYS}
     polylines = []
     for b in np.unique(cplus):
         sel = np.flatnonzero(cplus == b)
@@ -302,12 +309,14 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         cfi, me_1d, pe_1d = exitflow.ideal_vacuum_cf(area_ratio, g)
         summary["thrust_coefficient_ideal_1d"] = cfi
         summary["exit_mach_ideal_1d"] = me_1d
-        if cf is not None and last_fit is not None and last_fit.fate not in ("exit", "decays", "axis"):
+        wall_ahead = fit is not None and front0["x"][-1] >= x_end  # the shock region meets the wall past the exit
+        if cf is not None and last_fit is not None and last_fit.fate not in ("exit", "decays", "axis") \
+                and not wall_ahead:
             warnings.append(f"the shock march stopped early ({last_fit.fate}); the thrust is not reported.")
             cf = None
         summary["thrust_coefficient_vacuum"] = cf
         summary["thrust_ratio_to_ideal"] = (cf / cfi) if cf is not None else None
-        if cf is None:
+        if cf is None and not any("thrust is not reported" in w for w in warnings):
             warnings.append("the wall was not computed up to the exit, so the thrust is not reported.")
     else:
         summary["thrust_coefficient_vacuum"] = None

@@ -164,6 +164,11 @@ def read_wall_csv(path, units=None, normalise=True):
     from moc.io.units import METRES_PER_UNIT, normalise_unit
 
     p = Path(path)
+    if units is not None and str(units).strip().lower() != "throat":
+        try:
+            normalise_unit(units)
+        except Exception:
+            raise ContourError(f"--units {units!r} is not a length unit; use m, cm, mm, um, in, ft or throat.") from None
     if not p.is_file():
         raise ContourError(f"wall file {p} does not exist or is not a file.")
     try:

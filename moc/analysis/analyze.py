@@ -211,20 +211,17 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     cminus = ia1.astype(np.int64)
     index = -np.ones((R, W + 1), np.int64)
     index[ia1, id1] = np.arange(ia1.size)
-    cl = []
     ca, cd = np.nonzero(ok)
-    for a_, d_ in zip(ca, cd):
-        q = [index[a_, d_], index[a_ + 1, d_ + 1], index[a_ + 1, d_], index[a_, d_ - 1]]
-        if min(q) >= 0:
-            cl.append(q)
-        if d_ == 1:  # the triangle against the axis
-            q = [index[a_, 0], index[a_ + 1, 1], index[a_ + 1, 0]]
-            if min(q) >= 0 and a_ + 1 < R:
-                cl.append(q + [q[-1]])
-        if d_ == W - 1 and a_ + 1 < R:  # the triangle against the wall
-            q = [index[a_, W - 1], index[a_ + 1, W], index[a_, W]]
-            if min(q) >= 0:
-                cl.append(q + [q[-1]])
+    quads = np.stack([index[ca, cd], index[ca + 1, cd + 1], index[ca + 1, cd], index[ca, cd - 1]], axis=1)
+    tris = []
+    ax_ = (cd == 1) & (ca + 1 < R)  # triangles against the axis
+    tris.append(np.stack([index[ca[ax_], 0], index[ca[ax_] + 1, 1], index[ca[ax_] + 1, 0]], axis=1))
+    wl_ = (cd == W - 1) & (ca + 1 < R)  # triangles against the wall
+    tris.append(np.stack([index[ca[wl_], W - 1], index[ca[wl_] + 1, W], index[ca[wl_], W]], axis=1))
+    tris = np.concatenate(tris)
+    tris = np.concatenate([tris, tris[:, -1:]], axis=1)
+    both = np.concatenate([quads, tris])
+    cl = [list(q) for q in both[np.all(both >= 0, axis=1)]]
     parts = [flat]
     labs_p, labs_m = [cplus], [cminus]
     off = ia1.size

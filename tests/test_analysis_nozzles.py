@@ -153,3 +153,20 @@ def test_designed_axisymmetric_nozzle_agrees_with_its_design():
     assert s["area_ratio"] == pytest.approx(2.40310, abs=1e-3)
     assert s["exit_mach"] == pytest.approx(2.4, abs=1e-3)
     assert s["mass_flow_ratio"] == pytest.approx(1.0, abs=1e-3)
+
+
+def test_gradual_design_with_rounded_throat_is_shock_free(tmp_path):
+    # A rounded-throat (gradual) design analysed from the same transonic start: shock-free, its exit Mach number
+    # reproduced to 1e-3, and the mass flow across the initial line equal to the design's discharge coefficient
+    # (mass conservation; Sauer's solution, NACA TM 1147, as the design used).
+    d = tmp_path / "gradual"
+    assert main(["design", "--exit-mach", "2.4", "--planar", "--throat-curvature", "3", "--inflection", "10",
+                 "-n", "60", "-o", str(d), "--quiet", "--no-plot"]) == 0
+    design = json.loads((d / "summary.json").read_text())
+    out = tmp_path / "analysis"
+    assert main(["analyze", str(d), "-o", str(out), "--quiet", "--no-plot"]) == 0
+    s = json.loads((out / "summary.json").read_text())
+    assert s["shock_free"] is True
+    assert s["exit_mach"] == pytest.approx(2.4, abs=1e-3)
+    assert s["discharge_coefficient"] == pytest.approx(design["discharge_coefficient"], abs=1e-4)
+    assert s["mass_flow_ratio"] == pytest.approx(s["discharge_coefficient"], abs=1e-3)

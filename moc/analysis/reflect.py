@@ -119,5 +119,5 @@ def reflect(fit, frame, wall, gamma, delta, step, x_end):
                  p02_p01=float(s.p02_p01), lnp01=ln1, deflection=dfl, label0=3_000_000 + 100_000 * (frame + 2))
     front0 = {k: np.array([corner[k]]) for k in KEYS}
     new = fit_shock(up, new_wall, start, front0, gamma, delta, step, x_end, lower=lower, lower_angle=lower_angle,
-                    lower_name="wall" if frame == +1 else "axis")
+                    lower_name="wall" if frame == +1 else "axis", frame=-frame)
     return new, -frame

@@ -122,7 +122,7 @@ def _stack(points):
 
 
 def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_steps=4000, lower=None,
-              lower_angle=None, lower_name="axis", x_offset=0.0):
+              lower_angle=None, lower_name="axis", frame=1):
     """March the shock from `start` (dict x, y, phi = shock direction, rad) behind `front0`.
 
     `front0` is the first known front behind the shock start (dict of arrays
@@ -202,24 +202,24 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         if status != "ok":
             end = (xs, ys)
             if status == "vanishes":
-                fate, detail = "decays", f"weakens to a Mach wave near x = {xs:.5g}, y = {ys:.5g}"
+                fate, detail = "decays", f"weakens to a Mach wave near x = {xs:.5g}, y = {ys * frame:.5g}"
             elif status == "too_strong":
                 fate, detail = "too_strong", (f"would need more than the weak-shock deflection near x = {xs:.5g}, "
-                                              f"y = {ys:.5g} (detachment or Mach reflection): the march stops there")
+                                              f"y = {ys * frame:.5g} (detachment or Mach reflection): the march stops there")
                 warnings.append("shock " + detail + ".")
             elif status == "no_upstream":
                 fate, detail = "left_field", (f"leaves the region where the upstream flow is known near x = {xs:.5g}, "
-                                              f"y = {ys:.5g}: the march stops there")
+                                              f"y = {ys * frame:.5g}: the march stops there")
                 warnings.append("shock " + detail + ".")
             else:
-                fate, detail = "lost", f"lost its downstream characteristic near x = {xs:.5g}, y = {ys:.5g}"
+                fate, detail = "lost", f"lost its downstream characteristic near x = {xs:.5g}, y = {ys * frame:.5g}"
                 warnings.append("shock " + detail + ".")
             break
         # a shock that has weakened to a Mach wave for many steps has decayed
         weak_run = weak_run + 1 if d["p2_p1"] < 1.0 + 1e-9 else 0
         if weak_run >= 25 and sh["p2_p1"] and max(sh["p2_p1"]) > 1.0 + 1e-6:
             fate, end = "decays", (xs, ys)
-            detail = f"weakens to a Mach wave near x = {xs:.5g}, y = {ys:.5g}"
+            detail = f"weakens to a Mach wave near x = {xs:.5g}, y = {ys * frame:.5g}"
             break
         # accept the shock point
         for k, v in (("x", xn), ("y", yn), ("beta", beta), ("theta1", up["theta"]), ("m1", up["mach"]),
@@ -252,7 +252,7 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         if broke:
             fate, end = "second_fold", (xs, ys)
             detail = (f"characteristics behind the shock cross again near x = {float(L['x']):.5g}, "
-                      f"y = {float(L['y']):.5g} (a second shock would form there; not tracked): the march stops")
+                      f"y = {float(L['y']) * frame:.5g} (a second shock would form there; not tracked): the march stops")
             warnings.append("shock " + detail + ".")
             break
         Wp = rp.wall_point(L, wall, gamma, delta, lnp0_wall=np.asarray(F["lnp0"][-1]))

@@ -21,8 +21,10 @@ def add_arguments(p):
     c.add_argument("--length", type=float, metavar="L", help="bell length over the throat size")
     c.add_argument("--area-ratio", type=float, metavar="AR", help="cone exit area over throat area")
     c.add_argument("--throat-radius", type=float, metavar="R",
-                   help="downstream throat arc radius over the throat size (rounded throat, transonic start; "
-                        "default: sharp corner). Below about 2 the transonic series is poor.")
+                   help="throat wall radius of curvature over the throat size: a rounded throat, started from the "
+                        "transonic solution (cones and bells get the arc; for a CSV or a design it declares the "
+                        "wall's throat arc). Default: sharp corner / uniform sonic throat. Below about 2 the "
+                        "transonic series is poor.")
     d = p.add_argument_group("design directory")
     d.add_argument("--truncate-fraction", type=float, metavar="F", help="keep this fraction (0 < F <= 1) of the wall length")
     d.add_argument("--scale", type=float, metavar="S", help="axial scale factor: wall x multiplied by S, radii kept")
@@ -85,6 +87,8 @@ def _wall_from_args(args):
         wl = res.wall
         geometry = geometry or res.summary.get("geometry", "axisymmetric")
         gamma = gamma or res.summary.get("gamma", 1.4)
+        import math
+
         import numpy as np
 
         x, y = np.asarray(wl["x"], float), np.asarray(wl["y"], float)
@@ -106,6 +110,13 @@ def _wall_from_args(args):
             x = x * s
             slope = slope / s if slope is not None else None
         w = contour.wall_from_points(x, y, slope=slope, description=f"wall of {src}")
+        R = args.throat_radius
+        if R is None and res.summary.get("method") == "gradual" and args.scale is None:
+            R = res.summary.get("throat_curvature")  # the design's rounded throat: use the transonic start
+        if R is not None:
+            w = _with_throat_arc(w, R)
+            if res.summary.get("throat_solution") in ("sauer", "hall"):
+                extra["throat_solution"] = res.summary.get("throat_solution")
         extra["design"] = {"directory": str(src), "exit_mach": res.summary.get("exit_mach"),
                            "area_ratio": res.summary.get("area_ratio"),
                            "truncate_fraction": args.truncate_fraction, "scale": args.scale}
@@ -117,7 +128,32 @@ def _wall_from_args(args):
     else:
         w, info = contour.read_wall_csv(src, units=args.units)
     extra["csv"] = info
+    if args.throat_radius is not None and args.inflow_mach is None:
+        w = _with_throat_arc(w, args.throat_radius)
     return w, geometry or "axisymmetric", gamma or 1.4, src.name, extra
+
+
+def _with_throat_arc(w, R):
+    """The same wall with a rounded throat of radius R declared (and its arc continued 30 deg upstream),
+    so that the march starts from the transonic solution instead of a uniform sonic line."""
+    import math
+
+    import numpy as np
+
+    from moc.analysis import contour
+    from moc.errors import ContourError
+
+    R = float(R)
+    if not R > 0:
+        raise ContourError(f"throat radius of curvature must be positive, got {R:g}.")
+    t = np.linspace(-math.radians(30.0), 0.0, 60)[:-1]
+    keep = w.x >= 0.0
+    x = np.concatenate([R * np.sin(t), w.x[keep]])
+    y = np.concatenate([1.0 + R * (1.0 - np.cos(t)), w.y[keep]])
+    slope = np.concatenate([np.tan(t), np.tan(w.angle(w.x[keep]))])
+    out = contour.Wall(x, y, slope, description=w.description + f", rounded throat R = {R:g}", throat_arc=R)
+    out.meta.update(w.meta)
+    return out
 
 
 def _stream_wall(path, units):
@@ -141,8 +177,9 @@ def run(args):
     names = [n for n in OUTPUT_FILES if not (args.no_plot and n.endswith(".png"))]
     check_writable([out / n for n in names], args.force)
     start = "uniform" if args.inflow_mach is not None else "corner"
+    ts = extra.get("throat_solution") if extra.get("throat_solution") in ("sauer", "hall") else "hall"
     res = analyze(wall, gamma=gamma, geometry=geometry, n=args.characteristics, start=start,
-                  mach_in=args.inflow_mach, name=name)
+                  mach_in=args.inflow_mach, name=name, throat_solution=ts)
     res.inputs.update(extra)
     s = res.summary
     s["files"] = sorted(names)

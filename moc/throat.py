@@ -324,3 +324,77 @@ def initial_line(R, gamma=1.4, geometry="axisymmetric", solution="sauer", n=51, 
                        throat_curvature=R, solution=solution, mass_flow=mass,
                        discharge_coefficient=discharge_coefficient(R, g, geometry, solution),
                        sonic_shift=shift)
+
+
+def initial_cminus(R, gamma=1.4, geometry="axisymmetric", solution="sauer", n=50, x_axis=None):
+    """Initial C- characteristic through the transonic field, from the throat arc (first) to the axis.
+
+    The C- dy/dx = tan(theta - mu) through the axis point x_axis (default
+    1.25 times the sonic shift) is integrated upstream through the field by
+    the classical fourth-order Runge-Kutta rule in y (step 1/(8n)) to the
+    throat arc; n + 1 points evenly spaced in y are returned as a dict x, y,
+    theta, mach, plus mass_flow (mass flow of the field across the
+    characteristic over the 1-D sonic flow through the throat, evaluated on
+    the fine integration path).
+    """
+    g = check_gamma(gamma)
+    d = check_geometry(geometry)
+    solution = _field_solution(solution)
+    R = check_curvature(R, solution)
+    if int(n) != n or n < 2:
+        raise InputError(f"the initial characteristic needs at least 3 points, got n = {n!r}.")
+    n = int(n)
+    order = _order(solution)
+    shift = float(sonic_line(np.array([0.0]), R, g, geometry, solution)[0])
+    xa = 1.25 * shift if x_axis is None else float(x_axis)
+    if not np.isfinite(xa) or xa <= shift or xa >= 0.5 * R:
+        raise InputError(
+            f"the initial characteristic must cross the axis downstream of the sonic point (x > {shift:.5g}) "
+            f"and within the throat arc (x < {0.5 * R:.5g}); got x = {x_axis!r}."
+        )
+
+    def dxdy(x, y):
+        u, v = _velocity(np.array([x]), np.array([y]), R, g, d, order)
+        q2 = float(u[0] ** 2 + v[0] ** 2)
+        if q2 <= 1.0:
+            raise ComputationError(
+                f"the transonic field is subsonic at x = {x:.4g}, y = {y:.4g}; start the initial "
+                "characteristic further downstream."
+            )
+        m = float(_mach_from_q(np.array([q2]), g)[0])
+        return 1.0 / np.tan(np.arctan2(v[0], u[0]) - np.arcsin(1.0 / m))
+
+    def gap(x, y):
+        return y - float(throat_wall(np.array([x]), R)[0][0])
+
+    h = 1.0 / (8 * n)
+    xs, ys = [xa], [0.0]
+    while gap(xs[-1], ys[-1]) < 0.0:
+        x, y = xs[-1], ys[-1]
+        k1 = dxdy(x, y)
+        k2 = dxdy(x + 0.5 * h * k1, y + 0.5 * h)
+        k3 = dxdy(x + 0.5 * h * k2, y + 0.5 * h)
+        k4 = dxdy(x + h * k3, y + h)
+        xs.append(x + h * (k1 + 2 * k2 + 2 * k3 + k4) / 6.0)
+        ys.append(y + h)
+        if len(ys) > 40 * n:
+            raise ComputationError("the initial characteristic does not reach the throat wall.")
+    g0, g1 = gap(xs[-2], ys[-2]), gap(xs[-1], ys[-1])
+    t = g0 / (g0 - g1)
+    xs[-1] = xs[-2] + t * (xs[-1] - xs[-2])
+    ys[-1] = ys[-2] + t * (ys[-1] - ys[-2])
+    px, py = np.array(xs), np.array(ys)
+    # mass flow across the fine path: rho (u dy - v dx) (1+d) y^d, trapezoidal rule
+    u, v = _velocity(px, py, R, g, d, order)
+    q2 = u * u + v * v
+    rho = np.maximum((g + 1.0) / 2.0 - (g - 1.0) / 2.0 * q2, 0.0) ** (1.0 / (g - 1.0))
+    w = (1.0 + d) * py**d
+    fu, fv = rho * u * w, rho * v * w
+    mass = float(np.sum(0.5 * (fu[1:] + fu[:-1]) * np.diff(py) - 0.5 * (fv[1:] + fv[:-1]) * np.diff(px)))
+    yq = np.linspace(py[-1], 0.0, n + 1)
+    xq = np.interp(yq, py, px)
+    uq, vq = _velocity(xq, yq, R, g, d, order)
+    theta = np.arctan2(vq, uq)
+    theta[-1] = 0.0
+    mach = _mach_from_q(uq * uq + vq * vq, g)
+    return {"x": xq, "y": yq, "theta": theta, "mach": mach, "mass_flow": mass, "sonic_shift": shift}

@@ -189,3 +189,18 @@ def test_bad_inputs():
         throat.initial_line(2.0, geometry="conical")
     with pytest.raises(InputError, match="downstream of the axis sonic point"):
         throat.initial_line(2.0, x=0.01)
+
+
+@pytest.mark.parametrize("geo", GEOS)
+def test_initial_characteristic(geo):
+    # Exact invariant: the initial line is a C- characteristic of the field, dy/dx = tan(theta - mu),
+    # from the throat arc to the axis; its mass flow equals the throat-plane flux of the same
+    # field to the series' order (mass conservation).
+    c = throat.initial_cminus(2.0, 1.4, geo, "hall", n=40)
+    assert c["y"][-1] == 0.0 and c["theta"][-1] == 0.0
+    assert c["y"][0] == pytest.approx(throat.throat_wall(c["x"][0], 2.0)[0], abs=1e-6)
+    mid_t = 0.5 * (c["theta"][1:] + c["theta"][:-1])
+    mid_m = 0.5 * (np.arcsin(1 / c["mach"][1:]) + np.arcsin(1 / c["mach"][:-1]))
+    slope = np.diff(c["y"]) / np.diff(c["x"])
+    assert np.allclose(slope, np.tan(mid_t - mid_m), rtol=2e-3)
+    assert c["mass_flow"] == pytest.approx(throat.field_discharge_coefficient(2.0, 1.4, geo, "hall"), abs=5e-4)

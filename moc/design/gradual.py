@@ -39,7 +39,7 @@ from moc.errors import ComputationError, InputError, MachError
 from moc.flow import area_ratio, pressure_ratio, prandtl_meyer
 from moc.flow._checks import check_gamma
 from moc.net._pm import mu_of_nu
-from moc.net.march import goursat, march_from_line
+from moc.net.march import goursat
 from moc.net.points import Points
 from moc.net.wall import cumulative_flux, mass_balance_wall, throat_flux, trace_streamline
 from moc.result import Net, Result
@@ -48,21 +48,51 @@ GEOMETRIES = {"planar": 0, "axisymmetric": 1}
 
 
 class _Contour:
-    """Initial contour: throat arc of radius R up to theta_a, then the tangent line."""
+    """Initial contour: throat arc, curvature blend, tangent line.
 
-    def __init__(self, R, theta_a):
+    From the throat the wall is the circular arc of radius R (the throat
+    curvature of the transonic solution) up to half the inflection angle; its
+    curvature then falls linearly with arc length to zero where the wall
+    reaches theta_a (a clothoid blend of length R theta_a), and a straight
+    segment at theta_a follows.  The continuous curvature matters in
+    axisymmetric flow: a sudden arc-to-cone tangency sends compression waves
+    that fold near the axis (an internal shock; measured with the net for
+    Me = 3, R = 2, theta_a = 12 deg) before the axis reaches Me.
+    """
+
+    def __init__(self, R, theta_a, blend=0.5):
         self.R, self.ta = R, theta_a
-        self.xt = R * math.sin(theta_a)
-        self.yt = 1.0 + R * (1.0 - math.cos(theta_a))
+        self.th1 = (1.0 - blend) * theta_a
+        self.s1 = R * self.th1
+        self.sb = 2.0 * R * (theta_a - self.th1)
+        self.x1 = R * math.sin(self.th1)
+        s = np.linspace(0.0, self.sb, 4001)
+        th = self._theta_blend(s)
+        c, sn = np.cos(th), np.sin(th)
+        ds = np.diff(s)
+        self.bx = self.x1 + np.concatenate([[0.0], np.cumsum(0.5 * (c[1:] + c[:-1]) * ds)])
+        self.by = 1.0 + R * (1.0 - math.cos(self.th1)) + np.concatenate([[0.0], np.cumsum(0.5 * (sn[1:] + sn[:-1]) * ds)])
+        self.bs = s
+        self.xt, self.yt = float(self.bx[-1]), float(self.by[-1])
         self.slope = math.tan(theta_a)
+
+    def _theta_blend(self, s):
+        return self.th1 + s / self.R - s * s / (2.0 * self.R * self.sb) if self.sb > 0 else np.full_like(s, self.th1)
 
     def __call__(self, x):
         x = np.asarray(x, float)
-        xa = np.clip(x, -self.xt, self.xt)
+        xa = np.clip(x, -self.x1, self.x1)
         w = np.sqrt(self.R * self.R - xa * xa)
-        on_arc = x <= self.xt
-        y = np.where(on_arc, 1.0 + self.R - w, self.yt + self.slope * (x - self.xt))
-        return y, np.where(on_arc, xa / w, self.slope)
+        y = np.where(x <= self.x1, 1.0 + self.R - w, self.yt + self.slope * (x - self.xt))
+        dy = np.where(x <= self.x1, xa / w, self.slope)
+        inb = (x > self.x1) & (x < self.xt)
+        if np.any(inb):
+            sb = np.interp(x[inb], self.bx, self.bs)
+            y = np.array(y, float)
+            dy = np.array(dy, float)
+            y[inb] = np.interp(x[inb], self.bx, self.by)
+            dy[inb] = np.tan(self._theta_blend(sb))
+        return y, dy
 
 
 def _check(exit_mach, gamma, geometry, n, throat_curvature, throat_solution):
@@ -87,116 +117,116 @@ def _check(exit_mach, gamma, geometry, n, throat_curvature, throat_solution):
     return me, g, GEOMETRIES[geometry], int(n), R
 
 
-def _line_points(line, g):
-    return Points(line.x, line.y, line.theta, prandtl_meyer(line.mach, g), np.arcsin(1.0 / line.mach))
+class _TooLarge(Exception):
+    """The attachment point lies on the curved part: the inflection angle is too large."""
 
 
-def _kernel(line_pts, contour, g, delta, nue, x_end0):
-    """March the kernel just far enough that a wall C- reaches the axis beyond nu_e.
+class _WallCurve:
+    """The initial contour in the form the net's wall point takes (y_of, angle)."""
 
-    The march is repeated with a growing end (x 1.15 each time): downstream of
-    the attachment point the kernel's straight wall is not part of the nozzle,
-    and marching it far can run into the compression its tangency sends to
-    the axis.  Returns the grid and the wall-started C- columns ending on the
-    axis: (column j, top row, bottom row, axis nu)."""
-    def run(x_end):
-        grid = march_from_line(line_pts, g, delta, wall=contour, x_end=x_end)
-        cols = _wall_columns(grid, contour)
-        return grid, cols, len(cols) >= 2 and cols[-1][3] > nue
+    def __init__(self, contour):
+        self.c = contour
 
-    # fast: double the end until the axis passes nu_e; on a failure of the net,
-    # restart from the last good end with small steps
-    x_end, good, growth = x_end0, x_end0, 2.0
-    last_exc = None
-    for _ in range(80):
-        try:
-            grid, cols, done = run(x_end)
-        except ComputationError as exc:
-            last_exc = exc
-            if growth == 2.0:
-                growth, x_end = 1.1, good * 1.1
-                continue
-            break
-        if done:
-            return grid, cols
-        good = x_end
-        x_end *= growth
-        if x_end > 1e3:
-            break
-    if last_exc is not None:
-        raise ComputationError(
-            f"marching the kernel downstream of the throat's initial-value line failed before the axis "
-            f"reached the exit Mach number ({last_exc}) Try another number of characteristics, throat "
-            "curvature or inflection angle."
-        )
-    raise ComputationError(
-        "the kernel did not reach the exit Mach number on the axis within "
-        f"x = {x_end:.3g} throat units; choose a larger inflection angle."
-    )
+    def y_of(self, x):
+        return self.c(x)[0]
+
+    def angle(self, x):
+        return np.arctan(self.c(x)[1])
 
 
-def _wall_columns(grid, contour):
-    v = grid.valid
-    out = []
-    for j in range(grid.shape[1]):
-        r = np.flatnonzero(v[:, j])
-        if r.size < 2:
-            continue
-        top, bot = int(r[0]), int(r[-1])
-        yw, _ = contour(np.array([grid.x[top, j]]))
-        if abs(grid.y[top, j] - yw[0]) < 1e-9 and grid.y[bot, j] == 0.0:
-            out.append((j, top, bot, float(grid.nu[bot, j])))
-    return out
+def _kernel(init, contour, g, delta, nue, max_rows=20000):
+    """Kernel net from the initial C- (wall first) along the initial contour.
+
+    Zig-zag net of C- characteristics leaving the wall: point [a, d] lies on
+    C- number a (a = 0 the initial characteristic) and d = 0 (axis) .. W
+    (wall); it is the meeting of the C- through [a, d+1] and the C+ through
+    [a-1, d-1], so each front 2a - d = const is one array operation with the
+    net's unit processes (moc.net.rotational: interior, wall and axis
+    points).  The march stops at the first C- whose axis point passes nu_e.
+    Returns dict of 2-D arrays (rows a, columns d) and the number of rows.
+    """
+    from moc.net import rotational as rp
+
+    W = init["x"].size - 1
+    wall = _WallCurve(contour)
+    keys = rp.KEYS
+    cap = 256
+    data = {k: np.full((cap, W + 1), np.nan) for k in keys}
+    first = {"x": init["x"][::-1], "y": init["y"][::-1], "theta": init["theta"][::-1],
+             "mach": init["mach"][::-1], "nu": prandtl_meyer(init["mach"][::-1], g),
+             "lnp0": np.zeros(W + 1)}
+    for k in keys:
+        data[k][0] = first[k]
+    s = 2 - W
+    while True:
+        d = np.arange(W + 1)
+        d = d[(d % 2) == (s % 2)]
+        a = (s + d) // 2
+        keep = a >= 1
+        d, a = d[keep], a[keep]
+        top = int(a.max())
+        if top >= cap:
+            if top >= max_rows:
+                raise ComputationError(
+                    f"the kernel needed more than {max_rows} characteristics without reaching the exit Mach "
+                    "number on the axis; choose a larger inflection angle."
+                )
+            for k in keys:
+                data[k] = np.vstack([data[k], np.full((cap, W + 1), np.nan)])
+            cap *= 2
+        mid = (d > 0) & (d < W)
+        if np.any(mid):
+            am, dm = a[mid], d[mid]
+            P = rp.interior({k: data[k][am - 1, dm - 1] for k in keys}, {k: data[k][am, dm + 1] for k in keys},
+                            g, delta)
+            for k in keys:
+                data[k][am, dm] = P[k]
+        if np.any(d == W):
+            aw = int(a[d == W][0])
+            P = rp.wall_point({k: data[k][aw - 1, W - 1] for k in keys}, wall, g, delta)
+            for k in keys:
+                data[k][aw, W] = np.asarray(P[k], float)
+        if np.any(d == 0):
+            aa = int(a[d == 0][0])
+            P = rp.axis_point({k: data[k][aa, 1] for k in keys}, g, delta)
+            for k in keys:
+                data[k][aa, 0] = np.asarray(P[k], float)
+            row_ok = np.all(np.isfinite(data["nu"][aa]))
+            if not row_ok:
+                raise ComputationError(
+                    f"the kernel's characteristic net broke down on C- characteristic {aa} (a point could not "
+                    "be computed: folded or subsonic flow) before the axis reached the exit Mach number; "
+                    "try a smaller inflection angle or a gentler throat."
+                )
+            if data["nu"][aa, 0] > nue:
+                rows = aa + 1
+                return {k: v[:rows] for k, v in data.items()}, rows
+        s += 1
 
 
-def _lerp_points(p, q, t, g):
-    f = [(1.0 - t) * a + t * b for a, b in zip(p[:4], q[:4])]
-    return Points(*f, mu_of_nu(np.asarray(f[3]), g))
+def _attachment(K, contour, nue, g, theta_a, strict=True):
+    """The C- through the axis point E (nu = nu_e), as Points from A (wall) to E (axis).
 
-
-def _attachment(grid, cols, contour, nue, g, theta_a, strict=True):
-    """The C- through the axis point E (nu = nu_e) as Points from A (wall) to E (axis)."""
-    nus = np.array([c[3] for c in cols])
-    k = int(np.searchsorted(nus, nue))
-    if k == 0:
-        wall_angle = math.degrees(grid.theta[cols[0][1], cols[0][0]])
+    E lies between the axis ends of C- rows a and a+1 of the kernel; the
+    characteristic through it is row a + tau, interpolated point by point.
+    """
+    nu_ax = K["nu"][:, 0]
+    a1 = int(np.argmax(nu_ax > nue))
+    if a1 == 0:
         raise InputError(
-            f"the initial expansion overshoots the exit Mach number already at wall angle {wall_angle:.3g} deg; "
-            "use a larger exit Mach number or a gentler throat (larger radius of curvature)."
+            "the initial characteristic already reaches the exit Mach number on the axis; "
+            "use a larger exit Mach number."
         )
-    (j0, t0, b0, n0), (j1, t1, b1, n1) = cols[k - 1], cols[k]
-    if j1 != j0 + 1 or t1 != t0 + 1 or b1 != b0 + 1:
-        raise ComputationError("the kernel's wall characteristics are not consecutive near the attachment point.")
-    tau = (nue - n0) / (n1 - n0)
-    rows = np.arange(t0 + 1, b0 + 1)
-    mid = _lerp_points(grid.at((rows, np.full(rows.size, j0))), grid.at((rows, np.full(rows.size, j1))), tau, g)
-    wa, wb = grid.at((np.array([t0]), np.array([j0]))), grid.at((np.array([t1]), np.array([j1])))
-    xa = (1.0 - tau) * wa.x + tau * wb.x
-    ya, sa = contour(xa)
-    nua = (1.0 - tau) * wa.nu + tau * wb.nu
-    A = Points(xa, ya, np.arctan(sa), nua, mu_of_nu(nua, g))
-    ea, eb = grid.at((np.array([b0]), np.array([j0]))), grid.at((np.array([b1]), np.array([j1])))
-    xe = (1.0 - tau) * ea.x + tau * eb.x
-    E = Points(xe, np.zeros(1), np.zeros(1), np.array([nue]), mu_of_nu(np.array([nue]), g))
-    pts = [A] + [mid.take(slice(i, i + 1)) for i in range(rows.size)] + [E]
-    # drop interpolated points crowding A or E (keeps the Goursat cells regular)
-    keep = [pts[0]]
-    spacing = np.median(np.hypot(np.diff(mid.x), np.diff(mid.y))) if rows.size > 1 else np.inf
-    for p in pts[1:-1]:
-        if math.hypot(p.x[0] - keep[-1].x[0], p.y[0] - keep[-1].y[0]) > 0.3 * spacing:
-            keep.append(p)
-    if len(keep) > 1 and math.hypot(keep[-1].x[0] - E.x[0], keep[-1].y[0]) < 0.3 * spacing:
-        keep.pop()
-    keep.append(E)
-    ae = Points(*(np.concatenate([p[f] for p in keep]) for f in range(5)))
-    if strict and ae.theta[0] < theta_a - 1e-12 and xa[0] < contour.xt:
-        wall_angle = math.degrees(float(ae.theta[0]))
-        raise InputError(
-            f"inflection angle {math.degrees(theta_a):.4g} deg is too large for this exit Mach number and "
-            f"throat: the arc alone reaches the exit Mach number on the axis at wall angle {wall_angle:.4g} deg; "
-            f"allowed is 0 < inflection < {wall_angle:.4g} deg."
-        )
-    return ae, (j0, tau)
+    a0 = a1 - 1
+    tau = (nue - nu_ax[a0]) / (nu_ax[a1] - nu_ax[a0])
+    f = {k: ((1.0 - tau) * K[k][a0] + tau * K[k][a1])[::-1] for k in ("x", "y", "theta", "nu")}  # wall first
+    ya, sa = contour(f["x"][:1])
+    f["y"][0], f["theta"][0] = ya[0], np.arctan(sa[0])
+    f["y"][-1], f["theta"][-1], f["nu"][-1] = 0.0, 0.0, nue
+    ae = Points(f["x"], f["y"], f["theta"], f["nu"], mu_of_nu(f["nu"], g))
+    if strict and ae.x[0] < contour.xt:
+        raise _TooLarge(float(ae.x[0]), float(math.degrees(ae.theta[0])))
+    return ae, (a0, tau)
 
 
 def _row_walls(G, ae_cum, g, delta):
@@ -211,18 +241,11 @@ def _row_walls(G, ae_cum, g, delta):
 
 def _design(me, g, delta, n, R, theta_a, solution, nue):
     geometry = "axisymmetric" if delta else "planar"
-    line = _throat.initial_line(R, g, geometry, solution, n=n)
-    if theta_a <= line.wall_angle:
-        raise InputError(
-            f"inflection angle {math.degrees(theta_a):.4g} deg is below the throat-arc wall angle at the "
-            f"initial-value line ({math.degrees(line.wall_angle):.4g} deg); allowed is above that and at most "
-            f"nu(Me)/2 = {math.degrees(nue / 2):.4g} deg."
-        )
+    init = _throat.initial_cminus(R, g, geometry, solution, n=n)
     contour = _Contour(R, theta_a)
-    pts = _line_points(line, g)
-    grid, cols = _kernel(pts, contour, g, delta, nue, contour.xt + 0.5)
-    ae, (jstar, tau) = _attachment(grid, cols, contour, nue, g, theta_a)
-    F0 = line.mass_flow * throat_flux(delta)
+    K, rows = _kernel(init, contour, g, delta, nue)
+    ae, (a0, tau) = _attachment(K, contour, nue, g, theta_a)
+    F0 = init["mass_flow"] * throat_flux(delta)
     # flux along AE measured from A downward
     cum, _ = cumulative_flux(ae.x[None, :], ae.y[None, :], ae.mu[None, :], g, delta)
     ae_cum = cum[0]
@@ -238,54 +261,54 @@ def _design(me, g, delta, n, R, theta_a, solution, nue):
     # streamline check from A across the Goursat C+ rows
     sx, sy, sth = trace_streamline(G, float(ae.x[0]), float(ae.y[0]), float(ae.theta[0]), rows=range(1, G.shape[0]))
     stream_dy = float(np.max(np.abs(sy[1:] - wall["y"])))
-    return dict(line=line, contour=contour, grid=grid, jstar=jstar, tau=tau, ae=ae, G=G, wall=wall,
+    return dict(init=init, contour=contour, K=K, a0=a0, tau=tau, ae=ae, G=G, wall=wall,
                 stream=(sx, sy, sth), stream_dy=stream_dy, mass_err=mass_err, F0=F0, mu_e=mu_e)
 
 
 def _assemble(me, g, delta, n, R, theta_a, solution, nue, d):
     geometry = "axisymmetric" if delta else "planar"
-    line, contour, grid, ae, G, wall = d["line"], d["contour"], d["grid"], d["ae"], d["G"], d["wall"]
-    jstar = d["jstar"]
-    # wall: throat arc up to the initial line, kernel wall points before A, A, straightening section
-    x0 = float(line.x[-1])
-    xa_ = np.linspace(0.0, x0, 9)[:-1]
+    init, contour, K, ae, G, wall = d["init"], d["contour"], d["K"], d["ae"], d["G"], d["wall"]
+    a0 = d["a0"]
+    W = init["x"].size - 1
+    # wall: throat arc from the throat (or the initial C-'s wall point, if downstream
+    # of it) to the start of the kernel, kernel wall points up to row a0, A, straightening
+    xw0 = float(init["x"][0])
+    xa_ = np.linspace(min(0.0, xw0), xw0, 9)[:-1] if xw0 > 0.0 else np.array([])
     ya_, sa_ = contour(xa_)
-    ma_ = _throat.state(xa_, ya_, R, g, geometry, solution)[1]
-    kv = grid.valid
-    kx, ky = np.where(kv, grid.x, np.nan), np.where(kv, grid.y, np.nan)
-    yw, _ = contour(np.nan_to_num(kx))
-    on_wall = kv & (np.abs(ky - yw) < 1e-9) & (kx < ae.x[0]) & (np.arange(grid.shape[1])[None, :] <= jstar)
-    wi, wj = np.nonzero(on_wall)
-    order = np.argsort(grid.x[wi, wj])
-    wi, wj = wi[order], wj[order]
-    wx = np.concatenate([xa_, grid.x[wi, wj], ae.x[:1], wall["x"]])
-    wy = np.concatenate([ya_, grid.y[wi, wj], ae.y[:1], wall["y"]])
-    wth = np.concatenate([np.arctan(sa_), grid.theta[wi, wj], ae.theta[:1], wall["theta"]])
-    wm = np.concatenate([ma_, grid.mach[wi, wj], 1.0 / np.sin(ae.mu[:1]), 1.0 / np.sin(wall["mu"])])
-    # net points: kernel columns up to j*, the line AE, Goursat points inside the wall
-    keep_k = kv & (np.arange(grid.shape[1])[None, :] <= jstar)
-    ki, kj = np.nonzero(keep_k)
+    ma_ = _throat.state(xa_, ya_, R, g, geometry, solution)[1] if xa_.size else np.array([])
+    kw = slice(0, a0 + 1)
+    kx, ky, kth, kn = (K[k][kw, W] for k in ("x", "y", "theta", "nu"))
+    km = K["mach"][kw, W]
+    wx = np.concatenate([xa_, kx, ae.x[:1], wall["x"]])
+    wy = np.concatenate([ya_, ky, ae.y[:1], wall["y"]])
+    wth = np.concatenate([np.arctan(sa_), kth, ae.theta[:1], wall["theta"]])
+    wm = np.concatenate([ma_, km, 1.0 / np.sin(ae.mu[:1]), 1.0 / np.sin(wall["mu"])])
+    # net points: kernel rows 0..a0, the C- AE, Goursat points inside the wall
     ni, nk = G.shape
     inside = G.valid.copy()
     for i in range(1, ni):
-        wxi = wall["x"][i - 1]
-        inside[i] &= G.x[i] <= wxi + 1e-12
-    inside[0, 1:] = False
+        inside[i] &= G.x[i] <= wall["x"][i - 1] + 1e-12
+    inside[0, :] = False
     inside[:, 0] = False  # AE itself is added once below
     gi, gk = np.nonzero(inside)
-    # C+ labels: kernel rows; AE point i continues the kernel row it was interpolated on
-    ae_rows = np.arange(ni) + int(grid.shape[0])  # fresh labels for the Goursat C+ lines
-    x = np.concatenate([grid.x[ki, kj], ae.x, G.x[gi, gk], wall["x"]])
-    y = np.concatenate([grid.y[ki, kj], ae.y, G.y[gi, gk], wall["y"]])
-    th = np.concatenate([grid.theta[ki, kj], ae.theta, G.theta[gi, gk], wall["theta"]])
-    ma = np.concatenate([grid.mach[ki, kj], 1.0 / np.sin(ae.mu), 1.0 / np.sin(G.mu[gi, gk]), 1.0 / np.sin(wall["mu"])])
-    j_ae = jstar + 1
-    cp = np.concatenate([ki, ae_rows, ae_rows[gi], ae_rows[1:]])
-    cm = np.concatenate([kj, np.full(ni, j_ae), j_ae + gk, j_ae + nk + np.arange(ni - 1)])
+    rows_k, cols_d = np.meshgrid(np.arange(a0 + 1), np.arange(W + 1), indexing="ij")
+    rk, dk = rows_k.ravel(), cols_d.ravel()
+    x = np.concatenate([K["x"][kw].ravel(), ae.x, G.x[gi, gk], wall["x"]])
+    y = np.concatenate([K["y"][kw].ravel(), ae.y, G.y[gi, gk], wall["y"]])
+    th = np.concatenate([K["theta"][kw].ravel(), ae.theta, G.theta[gi, gk], wall["theta"]])
+    ma = np.concatenate([K["mach"][kw].ravel(), 1.0 / np.sin(ae.mu), 1.0 / np.sin(G.mu[gi, gk]),
+                         1.0 / np.sin(wall["mu"])])
+    # labels: kernel C- = row a, C+ = a - d (shifted to start at 0); AE is C- a0 + 1 and its
+    # point i (from the wall, d = W - i) continues the C+ a0 + 1 - (W - i); Goursat columns
+    # k are further C- lines, rows keep their C+ label
+    shift = W
+    cp_ae = (a0 + 1) - (W - np.arange(ni)) + shift
+    cp = np.concatenate([rk - dk + shift, cp_ae, cp_ae[gi], cp_ae[1:]])
+    cm = np.concatenate([rk, np.full(ni, a0 + 1), a0 + 1 + gk, a0 + 1 + nk + np.arange(ni - 1)])
     cells = _cells(x, y, wx, wy)
     net = Net(x=x, y=y, theta=th, mach=ma, cplus=cp, cminus=cm, cells=cells)
     # exit: the uniform exit C+ from E up to the lip
-    last = G.shape[0] - 1
+    last = ni - 1
     ex_ok = inside[last] | (np.arange(nk) == 0)
     exit_ = {
         "x": np.append(G.x[last, ex_ok], wall["x"][-1]),
@@ -293,11 +316,9 @@ def _assemble(me, g, delta, n, R, theta_a, solution, nue, d):
         "mach": np.append(1.0 / np.sin(G.mu[last, ex_ok]), 1.0 / np.sin(wall["mu"][-1])),
         "theta": np.append(G.theta[last, ex_ok], wall["theta"][-1]),
     }
-    axis_pts = kv & (grid.y == 0.0) & (np.arange(grid.shape[1])[None, :] <= jstar)
-    ax_x = np.append(np.sort(grid.x[axis_pts]), [ae.x[-1], wall["x"][-1]])
-    ax_m = np.append(grid.mach[axis_pts][np.argsort(grid.x[axis_pts])], [me, me])
-    axis_ = {"x": ax_x, "mach": ax_m}
-    cd = float(line.mass_flow)
+    axis_ = {"x": np.concatenate([K["x"][kw, 0], ae.x[-1:], wall["x"][-1:]]),
+             "mach": np.concatenate([K["mach"][kw, 0], [me, me]])}
+    cd = float(init["mass_flow"])
     ar = float(wy[-1] ** (1 + delta))
     ar_s = float(d["stream"][1][-1] ** (1 + delta))
     ar_i = float(area_ratio(me, g))
@@ -325,8 +346,8 @@ def _assemble(me, g, delta, n, R, theta_a, solution, nue, d):
         "throat_solution": solution,
         "discharge_coefficient": cd,
         "discharge_coefficient_published": float(_throat.discharge_coefficient(R, g, geometry, solution)),
-        "sonic_shift": float(line.sonic_shift),
-        "initial_line_x": x0,
+        "sonic_shift": float(init["sonic_shift"]),
+        "initial_line_x": float(init["x"][-1]),
         "characteristics": n,
         "points": int(net.size),
         "wall_points": int(wx.size),
@@ -356,19 +377,37 @@ def _cells(x, y, wx, wy):
 
 
 def max_inflection_deg(exit_mach, gamma=1.4, geometry="axisymmetric", n=50, throat_curvature=2.0,
-                       throat_solution="sauer"):
-    """Largest inflection angle (degrees) for these inputs: the wall angle at which the
-    throat arc, continued without a straight segment, is met by the C- from the axis
-    point where M = Me.  Designs up to this angle exist; at it the straight segment
-    has zero length.
+                       throat_solution="sauer", tol_deg=0.01):
+    """Largest inflection angle (degrees) for these inputs, to `tol_deg`.
+
+    At that angle the C- from the axis point where M = Me meets the wall
+    exactly where the initial contour reaches the inflection angle (no
+    straight segment); above it the initial expansion alone overshoots Me.
+    Found by bisection on designs' kernels (each a march of the net).
     """
     me, g, delta, n, R = _check(exit_mach, gamma, geometry, n, throat_curvature, throat_solution)
     nue = prandtl_meyer(me, g)
-    line = _throat.initial_line(R, g, "axisymmetric" if delta else "planar", throat_solution, n=n)
-    contour = _Contour(R, 0.5 * nue)
-    grid, cols = _kernel(_line_points(line, g), contour, g, delta, nue, 0.5)
-    ae, _ = _attachment(grid, cols, contour, nue, g, 0.5 * nue, strict=False)
-    return float(np.degrees(ae.theta[0]))
+    init = _throat.initial_cminus(R, g, "axisymmetric" if delta else "planar", throat_solution, n=n)
+
+    def feasible(ta):
+        contour = _Contour(R, ta)
+        try:
+            K, _ = _kernel(init, contour, g, delta, nue)
+        except ComputationError:
+            return True   # the net failed downstream: not an overshoot of the initial expansion
+        ae, _ = _attachment(K, contour, nue, g, ta, strict=False)
+        return bool(ae.x[0] >= contour.xt)
+
+    lo, hi = 0.0, 0.5 * nue
+    if feasible(hi):
+        return float(math.degrees(hi))
+    while math.degrees(hi - lo) > tol_deg:
+        mid = 0.5 * (lo + hi)
+        if feasible(mid):
+            lo = mid
+        else:
+            hi = mid
+    return float(math.degrees(lo))
 
 
 def design_gradual(exit_mach, gamma=1.4, geometry="axisymmetric", n=50, throat_curvature=2.0,
@@ -394,7 +433,16 @@ def design_gradual(exit_mach, gamma=1.4, geometry="axisymmetric", n=50, throat_c
                 f"inflection angle {inflection_deg!r} deg is outside what exit Mach {me:g} allows: "
                 f"0 < inflection <= nu(Me)/2 = {math.degrees(0.5 * nue):.4g} deg."
             )
-        d = _design(me, g, delta, n, R, ta, throat_solution, nue)
+        try:
+            d = _design(me, g, delta, n, R, ta, throat_solution, nue)
+        except _TooLarge as exc:
+            top = max_inflection_deg(me, g, geometry, n, R, throat_solution, tol_deg=0.05)
+            raise InputError(
+                f"inflection angle {inflection_deg:g} deg is too large for exit Mach {me:g} with throat "
+                f"curvature {R:g}: the initial expansion reaches Me on the axis before the wall turns that far "
+                f"(attachment at x = {exc.args[0]:.4g}, wall angle {exc.args[1]:.4g} deg); allowed is "
+                f"0 < inflection <= {top:.3f} deg."
+            ) from None
         return _assemble(me, g, delta, n, R, ta, throat_solution, nue, d)
     return _design_for_length(me, g, delta, n, R, float(length), throat_solution, nue)
 
@@ -406,18 +454,19 @@ def _design_for_length(me, g, delta, n, R, target, solution, nue):
     if not math.isfinite(target) or target <= 0:
         raise InputError(f"target length must be a positive number of throat units, got {target!r}.")
     geometry = "axisymmetric" if delta else "planar"
-    line = _throat.initial_line(R, g, geometry, solution, n=5)
-    lo = line.wall_angle * 1.05 + math.radians(0.2)
-    hi = 0.5 * nue
+    lo = math.radians(1.0)
 
     def length_at(ta, m):
-        d = _design(me, g, delta, m, R, ta, solution, nue)
+        try:
+            d = _design(me, g, delta, m, R, ta, solution, nue)
+        except _TooLarge:
+            raise ComputationError("the inflection angle is above the largest one for this net.") from None
         return float(d["wall"]["x"][-1])
 
     # bracket: the largest angle the arc allows (shortest nozzle) and the smallest angle
     # for which the net can be built (longest nozzle)
     m0 = min(n, 30)
-    hi = math.radians(max_inflection_deg(me, g, geometry, m0, R, solution)) * 0.999
+    hi = math.radians(max_inflection_deg(me, g, geometry, m0, R, solution, tol_deg=0.05)) * 0.995
     l_hi = length_at(hi, m0)
     if target < l_hi:
         raise InputError(

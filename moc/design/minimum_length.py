@@ -98,7 +98,7 @@ def _axis_residual(theta_c, n, gamma, delta, power, nue):
     return float(out[0][2][-1] - nue)
 
 
-def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-11):
+def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-10):
     """Corner angle theta_c (radians) for which the axis reaches nu(Me) at the kernel end.
 
     Planar: nu(Me)/2.  Axisymmetric: bracketed root (Brent) on coarse nets,
@@ -150,8 +150,15 @@ def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-11):
     slope = (_axis_residual(t0 + h, m0, gamma, delta, power, nue)
              - _axis_residual(t0 - h, m0, gamma, delta, power, nue)) / (2 * h)
     levels = [m for m in (40, 160) if m < n // 2] + [n] if n > m0 else []
+    roots = {m0: t0}
     for m in levels:
+        if m == n and len(roots) >= 3:
+            # Richardson extrapolation in 1/n^2 from the two finest levels (second order)
+            m1, m2 = sorted(roots)[-2:]
+            c = (roots[m1] - roots[m2]) / (1.0 / m1**2 - 1.0 / m2**2)
+            t0 = roots[m2] - c * (1.0 / m2**2 - 1.0 / n**2)
         t0, slope = _secant(lambda t: _axis_residual(t, m, gamma, delta, power, nue), t0, slope, tol)
+        roots[m] = t0
     return t0
 
 

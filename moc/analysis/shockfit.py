@@ -258,7 +258,11 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         Wp = rp.wall_point(L, wall, gamma, delta, lnp0_wall=np.asarray(F["lnp0"][-1]))
         if not np.isfinite(Wp["mach"]) or not float(Wp["x"]) > float(F["x"][-1]):
             fate, end = "wall_lost", (xs, ys)
-            detail = f"the wall point behind the shock after x = {float(F['x'][-1]):.5g} could not be found: the march stops"
+            if float(L["mach"]) < 1.1:
+                detail = (f"the flow behind the shock slows to sonic speed at the wall near x = {float(F['x'][-1]):.5g} "
+                          "(the supersonic march cannot go on; the duct would choke): the march stops")
+            else:
+                detail = f"the wall point behind the shock after x = {float(F['x'][-1]):.5g} could not be found: the march stops"
             warnings.append("shock " + detail + ".")
             break
         pts.append({k: float(Wp[k]) for k in KEYS} | {"cm": new_label()})

@@ -39,6 +39,8 @@ def test_planar_acceptance_numbers(planar24):
     # Source: NACA Report 1135, A/A*(2.4) = 2.40310 (isentropic area relation).
     assert abs(s["area_ratio"] / 2.4031 - 1) < 2e-4
     assert abs(s["area_ratio_streamline"] / 2.4031 - 1) < 2e-4
+    assert s["mass_flow_error"] < 1e-4
+    assert s["wall_streamline_difference"] < 2e-4
 
 
 def test_axisymmetric_acceptance_numbers(axi3):
@@ -47,6 +49,8 @@ def test_axisymmetric_acceptance_numbers(axi3):
     assert abs(s["area_ratio"] / 4.2346 - 1) < 1e-3
     assert abs(s["area_ratio_streamline"] / 4.2346 - 1) < 1e-3
     assert s["exit_mach_max_dev"] < 2e-3
+    assert s["mass_flow_error"] < 5e-4
+    assert s["wall_streamline_difference"] < 5e-4
     # Source: fact of the trade (Argrow and Emanuel, J. Fluids Eng. 110(3), 1988,
     # from memory): the axisymmetric corner angle lies below the planar nu(Me)/2.
     assert s["corner_angle_deg"] < 49.7573 / 2
@@ -96,6 +100,13 @@ def test_result_contract(axi3):
     area = 0.5 * np.sum(px * np.roll(py, -1, 1) - np.roll(px, -1, 1) * py, axis=1)
     assert np.all(area > 0)
     assert r.summary["area_ratio_isentropic"] == pytest.approx(area_ratio(3.0, 1.4), rel=1e-14)
+    # exact invariant: the cells tile the flow region bounded by the first fan ray, the
+    # wall, the exit characteristic and the axis (shoelace areas agree to round-off)
+    ax0 = r.axis["x"][1]
+    poly_x = np.concatenate([w["x"], [r.exit["x"][0], ax0]])
+    poly_y = np.concatenate([w["y"], [0.0, 0.0]])
+    poly = 0.5 * abs(np.sum(poly_x * np.roll(poly_y, -1) - np.roll(poly_x, -1) * poly_y))
+    assert area.sum() == pytest.approx(poly, rel=1e-10)
 
 
 @pytest.mark.parametrize(

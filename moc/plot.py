@@ -371,7 +371,8 @@ def plot_wall(result, ax=None):
         ax.plot([xf, xf], [ylen, 0], color=INK, linewidth=0.5)
     s = result.summary
     notes = []
-    for key, text in (("area_ratio", "exit area ratio A/A* = {:.5g}"),
+    for key, text in (("area_ratio", "exit area ratio A_exit / A_throat = {:.5g}"),
+                      ("area_ratio_sonic", "exit over sonic area A_exit / A* = {:.5g}"),
                       ("corner_angle_deg", "corner angle = {:.4g} deg"),
                       ("inflection_angle_deg", "inflection angle = {:.4g} deg"),
                       ("max_wall_angle_deg", "max wall angle = {:.4g} deg")):

@@ -254,7 +254,7 @@ def _design(me, g, delta, n, R, theta_a, solution, nue):
     # exit C+ sized for the mass crossing AE (the Goursat region carries exactly that)
     y_exact = (ae_cum[-1] * (1 + delta) * area_ratio(me, g)) ** (1.0 / (1 + delta))
     m = n + n // 5
-    ye = y_exact * 1.2 * np.arange(m + 1) / m
+    ye = y_exact * 1.23 * np.arange(m + 1) / m
     cplus = Points(ae.x[-1] + ye / math.tan(mu_e), ye, np.zeros(m + 1), np.full(m + 1, nue), np.full(m + 1, mu_e))
     G = goursat(ae, cplus, g, delta)
     wall = _row_walls(G, ae_cum, g, delta)
@@ -309,7 +309,7 @@ def _assemble(me, g, delta, n, R, theta_a, solution, nue, d):
     net = Net(x=x, y=y, theta=th, mach=ma, cplus=cp, cminus=cm, cells=cells)
     # exit: the uniform exit C+ from E up to the lip
     last = ni - 1
-    ex_ok = inside[last] | (np.arange(nk) == 0)
+    ex_ok = (inside[last] | (np.arange(nk) == 0)) & (G.y[last] < wall["y"][-1] - 1e-12)
     exit_ = {
         "x": np.append(G.x[last, ex_ok], wall["x"][-1]),
         "y": np.append(G.y[last, ex_ok], wall["y"][-1]),

@@ -49,6 +49,9 @@ def exit_fluxes(x, y, theta, mach, gamma, geometry):
         raise InputError("an exit curve needs at least two points with x, y, theta and Mach of equal length.")
     if not (np.all(np.isfinite(x)) and np.all(np.isfinite(y)) and np.all(np.isfinite(th)) and np.all(np.isfinite(m))):
         raise InputError("the exit curve has non-finite values; the flowfield does not reach the exit.")
+    # drop repeated points (a lip that coincides with a net point)
+    keep = np.concatenate([[True], (np.abs(np.diff(x)) > 1e-12) | (np.abs(np.diff(y)) > 1e-12)])
+    x, y, th, m = x[keep], y[keep], th[keep], m[keep]
     if abs(y[0]) > 1e-9 or np.any(np.diff(y) <= 0):
         raise InputError("the exit curve must start on the axis (y = 0) and rise monotonically to the lip.")
     p = pressure_ratio(m, g)

@@ -565,6 +565,8 @@ def write_report(result_dir, path=None, force=False, coarse=None, recompute=True
     from moc.result import Result
 
     result = Result.load(result_dir)
+    if Path(result_dir).is_file():  # a result.npz path: its directory is the result directory
+        result_dir = Path(result_dir).parent
     path = Path(path) if path is not None else Path(result_dir) / "report.html"
     if path.suffix.lower() not in (".html", ".htm"):
         raise InputError(f"the report is an HTML file; give a name ending in .html, got {path.name!r}.")

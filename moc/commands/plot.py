@@ -66,7 +66,10 @@ def run(args):
 
     result = Result.load(args.result_dir)
     names, skipped = parse_what(args.what, result)
-    outdir = Path(args.output) if args.output else Path(args.result_dir)
+    rdir = Path(args.result_dir)
+    if rdir.is_file():  # a result.npz path
+        rdir = rdir.parent
+    outdir = Path(args.output) if args.output else rdir
     if outdir.exists() and not outdir.is_dir():
         from moc.errors import InputError
 

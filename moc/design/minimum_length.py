@@ -140,16 +140,26 @@ def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-10):
                     lo = mid
         if lo == 0.0:
             lo = 1e-6 * hi
-        return _illinois(f, lo, hi, f(lo), f(hi), 1e-12 * hi)
+        root = _illinois(f, lo, hi, f(lo), f(hi), 1e-12 * hi)
+        # the root must lie where the coarse net can be marched on both sides
+        if not (np.isfinite(f(root * (1 + 1e-6))) and np.isfinite(f(root * (1 - 1e-6)))):
+            return None
+        return root
 
     # a bracketed root on a coarse net, then secant iterations on finer nets
     # (the slope carried from level to level), the last level being n
-    m0 = min(n, 10)
-    t0 = coarse(m0)
+    t0 = None
+    for m0 in (10, 20, 40, 80, 160):  # coarsest net on which the root can be found
+        m0 = min(n, m0)
+        t0 = coarse(m0)
+        if t0 is not None or m0 == n:
+            break
+    if t0 is None:
+        raise ComputationError("the axisymmetric kernel breaks down near the required corner angle.")
     h = 1e-6 * t0
     slope = (_axis_residual(t0 + h, m0, gamma, delta, power, nue)
              - _axis_residual(t0 - h, m0, gamma, delta, power, nue)) / (2 * h)
-    levels = [m for m in (40, 160) if m < n // 2] + [n] if n > m0 else []
+    levels = [m for m in (40, 160) if m0 < m < n // 2] + [n] if n > m0 else []
     roots = {m0: t0}
     for m in levels:
         if m == n and len(roots) >= 3:

@@ -17,7 +17,7 @@ Labels: i is the C+ index, j the C- index of a point.  Grids are `Grid`s.
 
 import numpy as np
 
-from moc.errors import InputError
+from moc.errors import ComputationError, InputError
 from moc.net.grid import Grid
 from moc.net.points import Points, concat
 from moc.net.unit import axis_point, interior_point, inverse_wall_point
@@ -41,17 +41,39 @@ class _Axis:
         return p
 
 
-def _pairs(front, gamma, delta, source0=None):
+def _pairs(front, gamma, delta, source0=None, corner=None):
     """Interior points from consecutive pairs: C+ from front[k], C- from front[k+1].
 
-    `source0`: source term of front[0] when it lies on the axis."""
+    `source0`: source term of front[0] when it lies on the axis.  `corner`:
+    the points C opposite each new point P in its characteristic cell (the
+    front before `front`; NaN where none), for the parallelogram starting
+    estimate P ~ A + B - C."""
     a = front.take(slice(0, -1))
     b = front.take(slice(1, None))
     sa = None
     if source0 is not None and delta:
         sa = np.full(len(a), np.nan)
         sa[0] = source0
+    if corner is not None:
+        guess = (a.theta + b.theta - corner.theta, a.mu + b.mu - corner.mu, a.y + b.y - corner.y)
+        try:
+            return interior_point(a, b, gamma, delta, source_a=sa, guess=guess)
+        except ComputationError:  # a poor estimate (strong gradients): start as usual
+            pass
     return interior_point(a, b, gamma, delta, source_a=sa)
+
+
+def _opposite(prev, prev_labels, labels):
+    """Points of `prev` (labels `prev_labels`, a contiguous run) with the given labels; NaN outside."""
+    if prev is None or len(prev) == 0:
+        return None
+    step = 1 if len(prev_labels) < 2 else int(prev_labels[1] - prev_labels[0])
+    pos = (labels - prev_labels[0]) * step
+    ok = (pos >= 0) & (pos < len(prev))
+    posc = np.where(ok, pos, 0)
+    out = prev.take(posc)
+    nan = np.where(ok, 0.0, np.nan)
+    return Points(*(f + nan for f in out))
 
 
 def line_axis_source(line, delta):
@@ -84,19 +106,24 @@ def march_fan(corner_x, corner_y, fan_theta, fan_nu, gamma, delta):
     p0 = ax.point(corner.take(slice(0, 1)))
     fronts = [(np.array([0]), np.array([0]), p0)]
     front, fi = p0, np.array([0])  # front sorted bottom (largest i) to top
+    prev, prev_fi = None, None  # the front before `front`
     for s in range(1, 2 * n - 1):
         if s <= n - 1:
             ext = concat(front, corner.take(slice(s, s + 1)))
+            ext_i = np.append(fi, -1)
         else:
-            ext = front
+            ext, ext_i = front, fi
         parts, ids = [], []
         if s % 2 == 0:  # front s-1 ends above the axis: new axis point first
             parts.append(ax.point(front.take(slice(0, 1))))
             ids.append(np.array([s // 2]))
         if len(ext) >= 2:
-            parts.append(_pairs(ext, gamma, delta, ax.last_source if s % 2 == 1 else None))
+            # the cell of P = (i, j) from A = (i, j-1), B = (i-1, j) has C = (i-1, j-1)
+            opp = _opposite(prev, prev_fi, ext_i[1:])
+            parts.append(_pairs(ext, gamma, delta, ax.last_source if s % 2 == 1 else None, opp))
             top = max(0, s - n + 1)
             ids.append(np.arange((s - 1) // 2 if s % 2 else s // 2 - 1, top - 1, -1))
+        prev, prev_fi = front, fi
         front = concat(*parts) if len(parts) > 1 else parts[0]
         fi = np.concatenate(ids)
         fronts.append((fi, s - fi, front))
@@ -142,6 +169,7 @@ def goursat(cminus, cplus, gamma, delta, flux0=None, flux_target=None):
     fronts = [(np.array([ni - 1]), np.array([0]), cplus.take(slice(0, 1)))]
     front = cplus.take(slice(0, 1))
     lo, hi = ni - 1, ni - 1
+    prev, prev_i = None, None
     for d in range(1, ni + nk - 1):
         if prune:
             # drop the leading points whose C+ is finished (no later point needs them)
@@ -157,7 +185,11 @@ def goursat(cminus, cplus, gamma, delta, flux0=None, flux_target=None):
                 parts.append(cminus.take(slice(ni - 1 - d, ni - d)))
                 lo_new = ni - 1 - d
         if len(front) >= 2:
-            parts.append(_pairs(front, gamma, delta))
+            # the cell of P = (i, k) from A = (i, k-1), B = (i+1, k) has C = (i+1, k-1)
+            fr_i = np.arange(lo, hi + 1)
+            opp = _opposite(prev, prev_i, fr_i[1:])
+            parts.append(_pairs(front, gamma, delta, None, opp))
+        prev, prev_i = front, np.arange(lo, hi + 1)
         if d <= nk - 1 and hi == ni - 1:
             parts.append(cplus.take(slice(d, d + 1)))
             hi_new = ni - 1

@@ -78,12 +78,16 @@ def _intersect(xa, ya, aa, xb, yb, ab):
     return s_a, s_b
 
 
-def interior_point(a, b, gamma, delta, tol=TOL, source_a=None):
+def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None):
     """New point P on the C+ through `a` and the C- through `b` (arrays of Points).
 
     `source_a` optionally gives the source term at the points `a` (needed where
     an `a` lies on the axis: pass the value returned by `axis_point`; NaN
-    entries are computed from the state as usual).
+    entries are computed from the state as usual).  `guess = (theta, mu, y)`
+    optionally gives a starting estimate of P (NaN where none): the first pass
+    is then already a corrector pass, which saves iterations when the guess is
+    second-order accurate (as the parallelogram rule of a structured net is);
+    the converged point does not depend on it.
 
     Source: unit process of Zucrow and Hoffman, Gas Dynamics vol. 2 (1977),
     modified Euler predictor-corrector (from memory), written per arc length.
@@ -104,6 +108,17 @@ def interior_point(a, b, gamma, delta, tol=TOL, source_a=None):
     dy = b.y - a.y
     alpha_p, alpha_m, sp, sm = ap, bm, sa, sb
     t = 0.5 * (np.pi - a.mu - b.mu)  # warm start: t = pi/2 - mu, averaged
+    if guess is not None:
+        tg, mg, yg = guess
+        ok = np.isfinite(tg) & (mg > 0.0) & (mg < 0.5 * np.pi) & (np.abs(tg) < 0.5 * np.pi) & (yg > 0.0)
+        alpha_p = np.where(ok, 0.5 * (ap + tg + mg), ap)
+        alpha_m = np.where(ok, 0.5 * (bm + tg - mg), bm)
+        t = np.where(ok, 0.5 * np.pi - mg, t)
+        if delta:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                sg = np.sin(mg) * np.sin(tg) / yg
+            sp = np.where(ok, 0.5 * (sa + sg), sa)
+            sm = np.where(ok, 0.5 * (sb + sg), sb)
     x = y = nu = None
     prev = np.inf
     for it in range(MAXITER + 1):

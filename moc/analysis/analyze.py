@@ -260,7 +260,8 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
             m = F["x"].size
             keep = np.ones(m, bool)
             if cut is not None:
-                keep = F["x"] <= np.interp(F["y"], cut[0], cut[1]) + 1e-12
+                # behind the next shock: downstream of its path; above its highest point the region is ahead of it
+                keep = (F["x"] <= np.interp(F["y"], cut[0], cut[1]) + 1e-12) | (F["y"] > cut[0][-1])
             idx = -np.ones(m, np.int64)
             idx[keep] = np.arange(off, off + int(keep.sum()))
             parts.append({k: F[k][keep] for k in KEYS})

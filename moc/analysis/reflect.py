@@ -97,7 +97,7 @@ def reflect(fit, frame, wall, gamma, delta, step, x_end):
     if tris is None:
         return None, "the region behind the shock is too small to carry a reflection"
     tris = flip(tris)
-    up = UpstreamField(vertices=tris, gamma=gamma)
+    up = UpstreamField(vertices=tris, gamma=gamma, near=3.0 * step)
     xh, yh = fit.end
     m1 = float(sh["m2"][-1])
     th1 = -(float(sh["theta1"][-1]) - float(sh["deflection"][-1]))  # flow behind the incident shock, mirrored

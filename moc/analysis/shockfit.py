@@ -33,8 +33,9 @@ KEYS = rp.KEYS
 class UpstreamField:
     """The flow ahead of the shock: the unfolded cells of the shock-free net, plus uniform inflow."""
 
-    def __init__(self, net=None, ok=None, uniform=None, vertices=None, gamma=None):
+    def __init__(self, net=None, ok=None, uniform=None, vertices=None, gamma=None, near=0.0):
         self.slack = 0.5  # how far outside a triangle (in barycentric units) a point may be read
+        self.near = near  # beyond that, the nearest vertex within this distance (0: never)
         self.uniform = uniform
         if vertices is not None:  # triangles given directly: dict of (3, ntri) arrays
             self.v = vertices
@@ -88,6 +89,14 @@ class UpstreamField:
             j = int(np.argmax(lm))
             if lm[j] > -self.slack:
                 k = j
+        if k is None and self.near > 0 and vx.size:
+            # just beyond the triangulated region (next to a reflection point): the nearest vertex
+            d2 = (vx - x) ** 2 + (vy - y) ** 2
+            j = np.unravel_index(int(np.argmin(d2)), d2.shape)
+            if d2[j] <= self.near**2:
+                st = {q: float(self.v[q][j]) for q in KEYS}
+                st["x"], st["y"] = float(x), float(y)
+                return st
         if k is not None:
             w = np.clip(np.array([l1[k], l2[k], l3[k]]), 0.0, None)
             w = w / w.sum()
@@ -148,14 +157,39 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
     fate, detail, end, refl = "stopped", "the step limit was reached", None, None
     weak_run = 0
     merged = 0
+    def to_boundary(x0, y0, ph, st):
+        """Distance along direction ph from (x0, y0) to the lower boundary (secant steps)."""
+        if lower is None:
+            return -y0 / math.sin(ph) if math.sin(ph) < 0 else math.inf
+        t0, t1 = 0.0, st
+        f0, f1 = y0 - float(lower(x0)), y0 + st * math.sin(ph) - float(lower(x0 + st * math.cos(ph)))
+        for _ in range(30):
+            if f1 == f0:
+                break
+            t0, t1, f0 = t1, t1 - f1 * (t1 - t0) / (f1 - f0), f1
+            f1 = y0 + t1 * math.sin(ph) - float(lower(x0 + t1 * math.cos(ph)))
+            if abs(f1) < 1e-13:
+                break
+        return t1
+
+    final = False
     for _ in range(max_steps):
         phi_new = phi
         status, beta, d, up = "ok", None, None, None
         hit_axis = False
-        for _it in range(3):
+        step_now = step
+        tb_ = to_boundary(xs, ys, phi, step)
+        if tb_ <= 0.05 * step:
+            hit_axis = True
+        elif tb_ <= step:
+            final, step_now = True, tb_  # a last, shorter step that ends on the boundary
+        for _it in range(0 if hit_axis else 3):
             pa = 0.5 * (phi + phi_new)
-            xn, yn = xs + step * math.cos(pa), ys + step * math.sin(pa)
-            if yn <= (0.0 if lower is None else float(lower(xn))):
+            xn, yn = xs + step_now * math.cos(pa), ys + step_now * math.sin(pa)
+            ylow = 0.0 if lower is None else float(lower(xn))
+            if final:
+                yn = max(yn, ylow)
+            elif yn <= ylow:
                 hit_axis = True
                 break
             up = upstream.locate(xn, yn)
@@ -169,19 +203,7 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
                 break
             phi_new = up["theta"] - beta
         if hit_axis:
-            if lower is None:
-                t = -ys / math.sin(phi)
-            else:  # a few secant steps for the meeting with the lower boundary
-                t0, t1 = 0.0, step
-                f0, f1 = ys - float(lower(xs)), ys + step * math.sin(phi) - float(lower(xs + step * math.cos(phi)))
-                for _ in range(30):
-                    if f1 == f0:
-                        break
-                    t0, t1, f0 = t1, t1 - f1 * (t1 - t0) / (f1 - f0), f1
-                    f1 = ys + t1 * math.sin(phi) - float(lower(xs + t1 * math.cos(phi)))
-                    if abs(f1) < 1e-13:
-                        break
-                t = t1
+            t = max(to_boundary(xs, ys, phi, step), 0.0)
             xe_ = xs + t * math.cos(phi)
             end = (xe_, 0.0 if lower is None else float(lower(xe_)))
             fate = "axis"
@@ -269,9 +291,11 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         origin.append(np.array(used + [-1], dtype=np.int64))
         F = _stack(pts)
         fronts.append(F)
+        if final:
+            final = False  # the next pass finds the shock on the boundary and ends it there
         if xs > x_stop and F["x"][-1] > x_stop:
             fate, end = "exit", (xs, ys)
-            detail = f"leaves through the exit plane at y = {np.interp(x_stop, sh['x'], sh['y']):.5g}"
+            detail = f"leaves through the exit plane at y = {frame * np.interp(x_stop, sh['x'], sh['y']):.5g}"
             break
     shock = {k: np.asarray(v, float) for k, v in sh.items()}
     if merged:

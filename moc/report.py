@@ -99,6 +99,8 @@ th{background:#eef2f6}td.num{text-align:right;white-space:nowrap;font-variant-nu
 figure{margin:1rem 0}figure img{max-width:100%;border:1px solid #ddd;background:#fff}
 figcaption{font-size:.88rem;color:#444}
 code{font-family:ui-monospace,monospace;font-size:.9em}
+nav{font-size:.9rem;margin:.3rem 0 1rem}nav a{margin-right:.9rem;color:#0B4F8A}
+@media print{nav{display:none}figure,table{break-inside:avoid}body{background:#fff}}
 """
 
 
@@ -526,6 +528,10 @@ def build_report(result, result_dir=None, coarse=None, recompute=True, figures=T
         f"<h1>{_e(head)}</h1>",
         f'<p class="sub">{_e(sub)}. Written by moc {_e(__version__)} on {_e(when)}. '
         "Lengths in throat units are over the throat radius (axisymmetric) or half-height (planar).</p>",
+        '<nav>' + "".join(f'<a href="#{a}">{t}</a>' for a, t in (
+            ("key", "Key numbers"), ("verification", "Verification"), ("shocks", "Shocks"),
+            ("figures", "Figures"), ("inputs", "Inputs"), ("files", "Files"), ("summary", "All summary values"))
+            if figures or a != "figures") + '</nav>',
         f'<section class="caution" id="caution"><p><strong>Safety caution.</strong></p>{caution_html}</section>',
         '<h2 id="key">Key numbers</h2>',
         _table(_key_rows(result), head=("quantity", "value", "unit", "summary key"), num_cols=(1,)),

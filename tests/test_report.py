@@ -24,7 +24,7 @@ class Checker(HTMLParser):
 
     def __init__(self):
         super().__init__(convert_charrefs=True)
-        self.stack, self.errors, self.text, self.tags, self.srcs = [], [], [], [], []
+        self.stack, self.errors, self.text, self.tags, self.srcs, self.ids = [], [], [], [], [], set()
         self.decl = None
 
     def handle_decl(self, decl):
@@ -35,6 +35,10 @@ class Checker(HTMLParser):
         for k, v in attrs:
             if k in ("src", "href"):
                 self.srcs.append(v or "")
+            if k == "id":
+                if v in self.ids:
+                    self.errors.append(f"duplicate id {v!r}")
+                self.ids.add(v)
         if tag not in VOID:
             self.stack.append(tag)
 
@@ -65,6 +69,8 @@ def check_html(text):
     assert c.tags[0] == "html" and "title" in c.tags and "body" in c.tags
     # self-contained: no outside resource; images are data URIs
     assert all(s.startswith("data:") or s.startswith("#") for s in c.srcs), c.srcs[:3]
+    # every in-page link has its target
+    assert all(s[1:] in c.ids for s in c.srcs if s.startswith("#")), sorted(c.ids)
     return " ".join(c.text)
 
 

@@ -107,10 +107,16 @@ def performance(result, ambient_ratio=None):
     d = _delta(geometry)
     pa = _check_ambient(ambient_ratio)
     ex = result.exit
-    for k in ("x", "y", "theta", "mach"):
+    for k in ("y", "theta", "mach"):
         if k not in ex:
             raise InputError(f"the result has no exit profile field {k!r}; performance needs the exit flow.")
-    fl = exit_fluxes(ex["x"], ex["y"], ex["theta"], ex["mach"], g, geometry)
+    if "x" in ex:
+        ex_x = ex["x"]
+    elif "x" in result.wall:  # an exit plane at the end of the wall
+        ex_x = np.full(np.shape(ex["y"]), float(np.max(result.wall["x"])))
+    else:
+        raise InputError("the result has neither exit x positions nor a wall; performance needs the exit flow.")
+    fl = exit_fluxes(ex_x, ex["y"], ex["theta"], ex["mach"], g, geometry, p0_ratio=ex.get("p0_ratio"))
     cd = float(s.get("discharge_coefficient", fl["mass"]))
     cf_vac = fl["momentum"] + fl["pressure"]
     cf = cf_vac - (pa or 0.0) * fl["area"]

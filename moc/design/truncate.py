@@ -35,26 +35,28 @@ def _delta(geometry):
     return 1 if geometry == "axisymmetric" else 0
 
 
-def exit_fluxes(x, y, theta, mach, gamma, geometry):
+def exit_fluxes(x, y, theta, mach, gamma, geometry, p0_ratio=None):
     """Integrals across a curve from the axis to the lip (points in order, trapezoidal rule).
 
     Returns dict: momentum (x-momentum flux / (p0 A_t)), pressure (INT p/p0 dA / A_t),
     area (projected exit area / A_t), mass (mass flow over rho* a* A_t, i.e. the
     one-dimensional sonic flow through the throat), mass_velocity (mass-averaged u / a*).
+    p0_ratio: local total pressure over the chamber value (behind shocks), default 1.
     """
     g = check_gamma(gamma)
     d = _delta(geometry)
     x, y, th, m = (np.asarray(v, float) for v in (x, y, theta, mach))
+    r0 = np.ones_like(m) if p0_ratio is None else np.asarray(p0_ratio, float) * np.ones_like(m)
     if x.ndim != 1 or x.size < 2 or not (x.shape == y.shape == th.shape == m.shape):
         raise InputError("an exit curve needs at least two points with x, y, theta and Mach of equal length.")
     if not (np.all(np.isfinite(x)) and np.all(np.isfinite(y)) and np.all(np.isfinite(th)) and np.all(np.isfinite(m))):
         raise InputError("the exit curve has non-finite values; the flowfield does not reach the exit.")
     # drop repeated points (a lip that coincides with a net point)
     keep = np.concatenate([[True], (np.abs(np.diff(x)) > 1e-12) | (np.abs(np.diff(y)) > 1e-12)])
-    x, y, th, m = x[keep], y[keep], th[keep], m[keep]
+    x, y, th, m, r0 = x[keep], y[keep], th[keep], m[keep], r0[keep]
     if abs(y[0]) > 1e-9 or np.any(np.diff(y) <= 0):
         raise InputError("the exit curve must start on the axis (y = 0) and rise monotonically to the lip.")
-    p = pressure_ratio(m, g)
+    p = r0 * pressure_ratio(m, g)
     dy, dx = np.diff(y), np.diff(x)
     w = (1.0 + d) * y**d
     c, s = np.cos(th), np.sin(th)
@@ -67,7 +69,7 @@ def exit_fluxes(x, y, theta, mach, gamma, geometry):
         return float(np.sum(v))
 
     gm2 = g * m * m * p
-    rho_v = 1.0 / _area_ratio(m, g)       # rho V / (rho* a*), NACA Report 1135
+    rho_v = r0 / _area_ratio(m, g)        # rho V / (rho* a*), NACA Report 1135 (times p0/p0,chamber)
     a_ratio = np.sqrt((g + 1.0) / 2.0 * m * m / (1.0 + 0.5 * (g - 1.0) * m * m))  # V / a*
     mass = seg(rho_v * c, rho_v * s)
     mom = seg(gm2 * c * c, gm2 * c * s)

@@ -170,3 +170,25 @@ def test_gradual_design_with_rounded_throat_is_shock_free(tmp_path):
     assert s["exit_mach"] == pytest.approx(2.4, abs=1e-3)
     assert s["discharge_coefficient"] == pytest.approx(design["discharge_coefficient"], abs=1e-4)
     assert s["mass_flow_ratio"] == pytest.approx(s["discharge_coefficient"], abs=1e-3)
+
+
+def test_planar_bell_shock_reflects_and_conserves_mass_and_momentum(tmp_path):
+    # Exact invariants (common practice checks of a shock-fitted solution): mass and axial momentum are conserved
+    # across shocks, so the exit-plane mass flow equals the throat flow and the exit-plane thrust equals the
+    # wall-pressure thrust; total pressure never rises (second law).  Invented demo bell: 30 to 8 deg, length 6.
+    # (At some resolutions, e.g. n = 30 or 50, characteristics cross behind the young shock and are merged into
+    # it; the summary then warns and this check fails by up to 6 %: a known limit, see docs/analysis.md.)
+    out = tmp_path / "bell"
+    assert main(["analyze", "--bell", "30,8", "--length", "6", "--planar", "-n", "40", "-o", str(out), "--quiet"]) == 0
+    s = json.loads((out / "summary.json").read_text())
+    assert not any("merged" in w for w in s["warnings"])
+    assert [sh["fate"] for sh in s["shocks"]] == ["reflects_axis", "exit"]
+    assert s["shocks"][1]["family"] == "C+" and s["shocks"][1]["start_y"] == 0.0
+    assert s["march_complete"] is True
+    assert s["mass_flow_ratio"] == pytest.approx(1.0, abs=1e-2)
+    assert s["thrust_coefficient_exit_plane"] == pytest.approx(s["thrust_coefficient_vacuum"], rel=1e-2)
+    assert s["min_total_pressure_ratio"] <= s["shocks"][0]["total_pressure_ratio"] * s["shocks"][1]["total_pressure_ratio"] + 1e-3
+    assert s["min_total_pressure_ratio"] > 0.9
+    from moc.result import Result
+
+    assert float(np.max(Result.load(out).net.p0_ratio)) <= 1.0 + 1e-12

@@ -270,8 +270,11 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
             gidx.append(idx)
             prev_idx = idx
             off += int(keep.sum())
-            if keep.sum() >= 2:
-                polylines.append({k: F[k][keep] for k in KEYS})
+            # contiguous runs only: a segment must not jump over dropped points (across the next shock)
+            runs = np.split(np.arange(m), np.flatnonzero(np.diff(keep.astype(int)) != 0) + 1)
+            for run in runs:
+                if run.size >= 2 and keep[run[0]]:
+                    polylines.append({k: F[k][run] for k in KEYS})
             if fi == len(f_.fronts) - 1:
                 for t in region_triangle_index(f_.fronts, f_.origin):
                     q = [int(gidx[kk][ii]) for kk, ii in t]
@@ -384,7 +387,9 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     complete = fit is None or last_fit.fate == "exit"
     if coalescence is not None and coalescence.get("family") != "C-":
         complete = False
+    merged = sum(f_.merged for f_, _ in chain)
     summary.update({
+        "merged_characteristics": int(merged),
         "shock_free": coalescence is None,
         "shocks": shock_list,
         "coalescence": coalescence,

@@ -92,9 +92,9 @@ def performance(result, ambient_ratio=None):
     thrust_coefficient_vacuum, thrust_coefficient (at pa/p0 when given, else
     vacuum), thrust_coefficient_ideal_1d (vacuum, Sutton and Biblarz, at the
     effective area ratio A_e/(Cd A_t), per unit sonic area, so a real nozzle's
-    C_F compares with Cd times it), thrust_coefficient_ideal_1d_ambient,
-    divergence_efficiency (C_F,vac / (Cd C_F,ideal_1d): 1 for a uniform
-    parallel exit), exit_mach_mean (mass-weighted), exit_mach_spread,
+    C_F compares with Cd times it; Cd here is the exit curve's own mass flow),
+    thrust_coefficient_ideal_1d_ambient, divergence_efficiency
+    (C_F,vac / (Cd C_F,ideal_1d): 1 for a uniform parallel exit), exit_mach_mean (mass-weighted), exit_mach_spread,
     exit_flow_angle_max_deg, exit_area_ratio, length, wetted_area
     (+ wetted_area_inlet with an inlet).
     """
@@ -120,7 +120,10 @@ def performance(result, ambient_ratio=None):
     cd = float(s.get("discharge_coefficient", fl["mass"]))
     cf_vac = fl["momentum"] + fl["pressure"]
     cf = cf_vac - (pa or 0.0) * fl["area"]
-    eps_eff = max(fl["area"] / cd, 1.0)
+    # the effective (sonic) area ratio and the efficiency use the mass flow crossing the same
+    # exit curve as the thrust, so a discretisation error in the mass flow does not show as a gain
+    cd_exit = fl["mass"]
+    eps_eff = max(fl["area"] / cd_exit, 1.0)
     cf_1d = ideal_thrust_coefficient(eps_eff, g)
     m = np.asarray(ex["mach"], float)
     out = {
@@ -130,7 +133,7 @@ def performance(result, ambient_ratio=None):
         "thrust_coefficient_vacuum": cf_vac,
         "thrust_coefficient": cf,
         "thrust_coefficient_ideal_1d": cf_1d,
-        "divergence_efficiency": cf_vac / (cd * cf_1d),
+        "divergence_efficiency": cf_vac / (cd_exit * cf_1d),
         "exit_area_ratio": fl["area"],
         "exit_mach_mean": float(mach_from_speed(fl["mass_velocity"], g)),
         "exit_mach_spread": float(m.max() - m.min()),

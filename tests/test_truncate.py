@@ -1,6 +1,5 @@
 """Truncation of designed contours and the cost it reports (moc.design.truncate)."""
 
-import math
 
 import numpy as np
 import pytest

@@ -1,31 +1,33 @@
-"""Gradual-expansion nozzle: rounded throat, initial expansion arc, straightening section.
+"""Gradual-expansion nozzle: rounded throat, initial expansion, straightening section.
 
 Layout (x downstream, throat at x = 0):
-* the throat wall is a circular arc of radius R (throat units) about (0, 1 + R);
-  the flow across it is started on a supersonic initial-value line from a
+* the throat wall is a circular arc of radius R (throat units) about
+  (0, 1 + R); the flow is started on an initial C- characteristic of a
   published transonic solution (`moc.throat`: Sauer, Hall);
-* the arc continues up to the inflection angle theta_a and is followed by a
-  straight (conical / wedge) segment at theta_a, tangent to it;
-* the kernel, the flow determined by the initial line and this initial
-  contour, is marched (`moc.net.march.march_from_line`) until the axis
-  reaches the exit Mach number Me at E.  The C- characteristic through E meets
-  the initial contour at the attachment point A; the straight segment ends
-  there.  (Method of the ideal contour with a specified initial expansion,
-  Zucrow and Hoffman, Gas Dynamics vol. 2, 1977, from memory.)
+* the arc runs to half the inflection angle theta_a, a curvature blend
+  (curvature falling linearly to zero) turns the wall to theta_a, and a
+  straight (conical / wedge) segment follows;
+* the kernel, the flow determined by the initial characteristic and this
+  initial contour, is marched as a zig-zag net of C- lines leaving the wall
+  (unit processes of `moc.net.rotational`) until the axis reaches the exit
+  Mach number Me at E.  The C- characteristic through E meets the initial
+  contour at the attachment point A; the straight segment ends there
+  (ideal contour with a specified initial expansion, Zucrow and Hoffman, Gas
+  Dynamics vol. 2, 1977, from memory);
 * downstream of AE the flow is the characteristic initial-value (Goursat)
   problem between AE and the uniform exit C+ from E (`moc.net.march.goursat`);
   the straightening wall is the streamline from A carrying the mass that
   crosses AE (mass balance on each C+), checked by streamline tracing.
 
-The C- line through E lies between two computed C- characteristics j and
-j+1 of the kernel; it is interpolated linearly between them in the
-characteristic coordinate (second order, like the march).
+The C- through E lies between two computed C- characteristics a and a+1 of
+the kernel; it is interpolated linearly between them in the characteristic
+coordinate (second order, like the march).
 
 Area ratios: `area_ratio` is the geometric exit area over the geometric
 throat area, A_e/A_t = Cd A/A*(Me), with Cd the mass flow the transonic
-field carries across the initial line over the one-dimensional sonic flow;
-`area_ratio_sonic` = A_e/(Cd A_t) is the ratio to the sonic area and equals
-A/A*(Me) for a shock-free uniform exit (mass conservation).
+field carries across the initial characteristic over the one-dimensional
+sonic flow; `area_ratio_sonic` = A_e/(Cd A_t) is the ratio to the sonic area
+and equals A/A*(Me) for a shock-free uniform exit (mass conservation).
 """
 
 from __future__ import annotations

@@ -226,6 +226,14 @@ def _attachment(K, contour, nue, g, theta_a, strict=True):
     f["y"][0], f["theta"][0] = ya[0], np.arctan(sa[0])
     f["y"][-1], f["theta"][-1], f["nu"][-1] = 0.0, 0.0, nue
     ae = Points(f["x"], f["y"], f["theta"], f["nu"], mu_of_nu(f["nu"], g))
+    folded = (np.diff(ae.x) <= 0.0) | (np.diff(ae.y) >= 0.0)
+    if np.any(folded):
+        k = int(np.flatnonzero(folded)[0])
+        raise ComputationError(
+            f"the kernel's C+ characteristics cross near x = {ae.x[k]:.4g}, y = {ae.y[k]:.4g} (an internal "
+            "shock would form there), so no shock-free gradual nozzle follows from these inputs; "
+            "use a larger throat radius of curvature or another inflection angle."
+        )
     if strict and ae.x[0] < contour.xt:
         raise _TooLarge(float(ae.x[0]), float(math.degrees(ae.theta[0])))
     return ae, (a0, tau)

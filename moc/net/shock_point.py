@@ -71,18 +71,30 @@ def _interp(front, j, u):
     return {k: float(front[k][j] + u * (front[k][j + 1] - front[k][j])) for k in rp.KEYS}
 
 
-def residual(beta, up, xp, yp, front, gamma, delta):
-    """C- compatibility residual (nu + theta)_2 - (nu + theta)_Q - source - K dln p0, and the details."""
+def residual(beta, up, xp, yp, front, gamma, delta, ang=None):
+    """C- compatibility residual (nu + theta)_2 - (nu + theta)_Q - source - K dln p0, and the details.
+
+    With `ang` given, the C- through P is traced back along that fixed
+    direction, so Q does not move with the trial beta (the residual is then
+    continuous and monotone in beta); otherwise its direction is averaged
+    between the downstream state and Q.
+    """
     d = downstream(up["mach"], up["theta"], up["lnp0"], beta, gamma)
     mu2 = math.asin(1.0 / d["mach"])
-    ang = d["theta"] - mu2
     hit = None
-    for _ in range(4):
+    if ang is not None:
         hit = crossing_on_polyline(xp, yp, ang, front)
         if hit is None:
             return None, d
         q = _interp(front, hit[1], hit[2])
-        ang = 0.5 * (d["theta"] - mu2 + q["theta"] - math.asin(1.0 / q["mach"]))
+    else:
+        a_ = d["theta"] - mu2
+        for _ in range(4):
+            hit = crossing_on_polyline(xp, yp, a_, front)
+            if hit is None:
+                return None, d
+            q = _interp(front, hit[1], hit[2])
+            a_ = 0.5 * (d["theta"] - mu2 + q["theta"] - math.asin(1.0 / q["mach"]))
     t = hit[0]
     tm = 0.5 * (d["theta"] + q["theta"])
     mm = 0.5 * (mu2 + math.asin(1.0 / q["mach"]))
@@ -96,33 +108,51 @@ def residual(beta, up, xp, yp, front, gamma, delta):
     return r, d
 
 
-def solve_beta(up, xp, yp, front, gamma, delta):
+def solve_beta(up, xp, yp, front, gamma, delta, outer=4):
     """Weak-root shock angle at P matching the downstream C- from `front`.
 
     Returns (status, beta, downstream dict): status "ok", "vanishes" (the
     downstream flow asks for no compression: the shock has decayed to a Mach
     wave), "too_strong" (no weak solution with supersonic flow behind:
     detachment or Mach reflection), or "lost" (the C- does not meet the front).
+    The direction of the C- back to the front is fixed during each root
+    search and updated between searches (`outer` times).
     """
     m1 = up["mach"]
     mu1 = math.asin(1.0 / m1)
     _, bs = sonic_deflection(m1, gamma)
     lo, hi = mu1 * (1 + 1e-9) + 1e-12, float(bs) * (1 - 1e-9)
-    r_lo, d_lo = residual(lo, up, xp, yp, front, gamma, delta)
-    if r_lo is None:
-        return "lost", None, d_lo
-    if r_lo <= 0:
-        return "vanishes", lo, d_lo
-    r_hi, d_hi = residual(hi, up, xp, yp, front, gamma, delta)
-    if r_hi is None:
-        return "lost", None, d_hi
-    if r_hi > 0:
-        return "too_strong", hi, d_hi
+    # first direction: the upstream Mach direction averaged with the front's C- direction near P
+    ang = up["theta"] - mu1
+    hit = crossing_on_polyline(xp, yp, ang, front)
+    if hit is None:
+        return "lost", None, {}
+    q = _interp(front, hit[1], hit[2])
+    ang = 0.5 * (ang + q["theta"] - math.asin(1.0 / q["mach"]))
+    status, beta, d = "ok", None, None
+    for _ in range(outer):
+        r_lo, d_lo = residual(lo, up, xp, yp, front, gamma, delta, ang)
+        if r_lo is None:
+            return "lost", None, d_lo
+        if r_lo <= 0:
+            status, beta, d = "vanishes", lo, d_lo
+        else:
+            r_hi, d_hi = residual(hi, up, xp, yp, front, gamma, delta, ang)
+            if r_hi is None:
+                return "lost", None, d_hi
+            if r_hi > 0:
+                return "too_strong", hi, d_hi
 
-    def f(b):
-        r, _ = residual(b, up, xp, yp, front, gamma, delta)
-        return r if r is not None else -1.0
+            def f(b):
+                r, _ = residual(b, up, xp, yp, front, gamma, delta, ang)
+                return r if r is not None else -1.0
 
-    beta = brentq(f, lo, hi, xtol=1e-13, rtol=1e-13, maxiter=200)
-    _, d = residual(beta, up, xp, yp, front, gamma, delta)
-    return "ok", beta, d
+            beta = brentq(f, lo, hi, xtol=1e-13, rtol=1e-13, maxiter=200)
+            _, d = residual(beta, up, xp, yp, front, gamma, delta, ang)
+            status = "ok"
+        qq = d["q"]
+        new = 0.5 * (d["theta"] - math.asin(1.0 / d["mach"]) + qq["theta"] - math.asin(1.0 / qq["mach"]))
+        if abs(new - ang) < 1e-12:
+            break
+        ang = new
+    return status, beta, d

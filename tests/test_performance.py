@@ -104,3 +104,18 @@ def test_wetted_area_of_a_cone_frustum():
     s = math.hypot(3.0, y[-1] - 1.0)
     assert wetted_area(x, y, "axisymmetric") == pytest.approx(math.pi * (1 + y[-1]) * s, rel=1e-12)
     assert wetted_area(x, y, "planar") == pytest.approx(2 * s, rel=1e-12)
+
+
+def test_rounded_throat_nozzle_thrust():
+    # Source: Sutton and Biblarz ideal C_F; a shock-free uniform-exit nozzle whose throat passes
+    # Cd times the one-dimensional mass flow gives C_F = Cd C_F,ideal(Me) (mass and momentum of
+    # the uniform exit), so its divergence efficiency is 1.
+    from moc.design.gradual import design_gradual
+
+    r = design_gradual(2.4, 1.4, "planar", 41, 2.0, inflection_deg=14.0)
+    p = performance(r)
+    cd = r.summary["discharge_coefficient"]
+    assert p["thrust_coefficient_vacuum"] == pytest.approx(cd * ideal_thrust_coefficient(area_ratio(2.4, 1.4), 1.4),
+                                                           rel=1e-3)
+    assert p["divergence_efficiency"] == pytest.approx(1.0, abs=1e-6)
+    assert p["exit_mass_flow_ratio"] == pytest.approx(cd, rel=1e-3)

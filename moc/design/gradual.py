@@ -282,13 +282,18 @@ def _assemble(me, g, delta, n, R, theta_a, solution, nue, d):
     W = init["x"].size - 1
     # wall: throat arc from the throat (or the initial C-'s wall point, if downstream
     # of it) to the start of the kernel, kernel wall points up to row a0, A, straightening
+    # (the wall starts at the throat, x = 0; kernel wall points upstream of it, on the
+    # converging side of the arc where the initial characteristic meets the wall, are
+    # left to the inlet)
     xw0 = float(init["x"][0])
-    xa_ = np.linspace(min(0.0, xw0), xw0, 9)[:-1] if xw0 > 0.0 else np.array([])
+    xa_ = np.linspace(0.0, xw0, 9)[:-1] if xw0 > 0.0 else np.array([0.0])
     ya_, sa_ = contour(xa_)
-    ma_ = _throat.state(xa_, ya_, R, g, geometry, solution)[1] if xa_.size else np.array([])
+    ma_ = _throat.state(xa_, ya_, R, g, geometry, solution)[1]
     kw = slice(0, a0 + 1)
     kx, ky, kth, kn = (K[k][kw, W] for k in ("x", "y", "theta", "nu"))
     km = K["mach"][kw, W]
+    down = kx > xa_[-1] + 1e-12
+    kx, ky, kth, km = kx[down], ky[down], kth[down], km[down]
     wx = np.concatenate([xa_, kx, ae.x[:1], wall["x"]])
     wy = np.concatenate([ya_, ky, ae.y[:1], wall["y"]])
     wth = np.concatenate([np.arctan(sa_), kth, ae.theta[:1], wall["theta"]])

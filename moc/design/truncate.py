@@ -98,6 +98,8 @@ def _cut_x(wall, delta, length_fraction, area_ratio, exit_wall_angle_deg):
         return f * L, "length_fraction", f
     if area_ratio is not None:
         ar = float(area_ratio)
+        k0 = int(np.argmin(y))  # from the narrowest section downstream
+        x, y = x[k0:], y[k0:]
         a = y ** (1 + delta)
         if not np.all(np.diff(a) > 0):
             raise InputError("the wall radius does not grow monotonically, so an area-ratio cut is ambiguous.")

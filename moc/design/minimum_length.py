@@ -288,6 +288,9 @@ def _design(me, g, delta, n, nue):
 
     # exit characteristic: points of the exit C+ inside the wall, then the lip
     inside = np.isfinite(full.x) & (np.arange(n + m)[None, :] <= wall["col"][:, None])
+    rr = np.arange(n)
+    same = np.hypot(full.x[rr, wall["col"]] - wall["x"], full.y[rr, wall["col"]] - wall["y"]) <= 1e-12 * wx[-1]
+    inside[rr[same], wall["col"][same]] = False  # e.g. the lip, a grid point of the exit C+
     ex_cols = np.flatnonzero(inside[n - 1])
     ex_cols = ex_cols[ex_cols >= n - 1]
     exit_ = {

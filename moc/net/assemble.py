@@ -25,26 +25,38 @@ def grid_cells(index, inside, valid):
     return np.concatenate([quads, tris], axis=0)
 
 
+def _tri_area(x, y, a, b, c):
+    return 0.5 * ((x[b] - x[a]) * (y[c] - y[a]) - (x[c] - x[a]) * (y[b] - y[a]))
+
+
 def zipper(chain_a, chain_b, x, y):
-    """Triangles between two point chains (point numbers) that start side by side."""
+    """Triangles between two point chains (point numbers) that start side by side.
+
+    The strip polygon is chain_a followed by chain_b reversed; at each step the
+    chain to advance is the one giving the shorter diagonal, unless that
+    triangle would be turned the wrong way (outside a non-convex strip)."""
+    poly = list(chain_a) + list(chain_b)[::-1]
+    px, py = x[poly], y[poly]
+    sign = np.sign(np.sum(px * np.roll(py, -1) - np.roll(px, -1) * py))
     out = []
     ia = ib = 0
     la, lb = len(chain_a), len(chain_b)
     while ia < la - 1 or ib < lb - 1:
-        if ia == la - 1:
-            adv_a = False
-        elif ib == lb - 1:
-            adv_a = True
-        else:
+        a0, b0 = chain_a[ia], chain_b[ib]
+        ok_a = ia < la - 1 and np.sign(_tri_area(x, y, a0, chain_a[ia + 1], b0)) == sign
+        ok_b = ib < lb - 1 and np.sign(_tri_area(x, y, a0, chain_b[ib + 1], b0)) == sign
+        if ok_a and ok_b:
             pa, pb = chain_a[ia + 1], chain_b[ib + 1]
-            da = np.hypot(x[pa] - x[chain_b[ib]], y[pa] - y[chain_b[ib]])
-            db = np.hypot(x[pb] - x[chain_a[ia]], y[pb] - y[chain_a[ia]])
-            adv_a = da <= db
+            adv_a = np.hypot(x[pa] - x[b0], y[pa] - y[b0]) <= np.hypot(x[pb] - x[a0], y[pb] - y[a0])
+        elif ok_a or ok_b:
+            adv_a = ok_a
+        else:  # degenerate strip: advance whichever chain remains
+            adv_a = ia < la - 1
         if adv_a:
-            out.append((chain_a[ia], chain_b[ib], chain_a[ia + 1], chain_a[ia]))
+            out.append((a0, b0, chain_a[ia + 1], a0))
             ia += 1
         else:
-            out.append((chain_a[ia], chain_b[ib], chain_b[ib + 1], chain_a[ia]))
+            out.append((a0, b0, chain_b[ib + 1], a0))
             ib += 1
     return out
 

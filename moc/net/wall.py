@@ -43,7 +43,8 @@ def cumulative_flux(x, y, mu, gamma, delta):
 
 def mass_balance_wall(grid, gamma, delta, target=None, rows=None):
     """Wall point on each C+ row of `grid` where the flux from the row's first
-    point (on the axis) reaches `target` (default: the throat flux).
+    point (on the axis) reaches `target` (default: the throat flux; a scalar
+    or one value per row).
 
     Returns dict x, y, theta, nu, mu (one entry per row), `col` (index of the
     last grid point of the row inside the wall) and the cumulative flux array.
@@ -53,11 +54,21 @@ def mass_balance_wall(grid, gamma, delta, target=None, rows=None):
     if target is None:
         target = throat_flux(delta)
     sel = slice(None) if rows is None else rows
-    X, Y, TH, NU, MU = (getattr(grid, k)[sel] for k in ("x", "y", "theta", "nu", "mu"))
+    arrays = [getattr(grid, k)[sel] for k in ("x", "y", "theta", "nu", "mu")]
+    return flux_crossing(*arrays, gamma, delta, target, strict=True)
+
+
+def flux_crossing(X, Y, TH, NU, MU, gamma, delta, target, strict=False):
+    """Where the cumulative flux along each row of the 2-D arrays (rows are
+    characteristics or other lines, NaN where a row has no point) reaches
+    `target` (scalar or per row).  With `strict` a row that never reaches it
+    raises ComputationError; otherwise its outputs are NaN (col = -1)."""
     cum, f = cumulative_flux(X, Y, MU, gamma, delta)
-    over = np.nan_to_num(cum, nan=-np.inf) >= target
-    if not np.all(over.any(axis=1)):
-        bad = int(np.flatnonzero(~over.any(axis=1))[0])
+    tgt = np.broadcast_to(np.asarray(target, dtype=float), (X.shape[0],))
+    over = np.nan_to_num(cum, nan=-np.inf) >= tgt[:, None]
+    reach = over.any(axis=1)
+    if strict and not np.all(reach):
+        bad = int(np.flatnonzero(~reach)[0])
         raise ComputationError(
             f"the net does not reach the wall on C+ characteristic {bad}: "
             "the computed flow carries less than the throat mass flow there."
@@ -65,22 +76,27 @@ def mass_balance_wall(grid, gamma, delta, target=None, rows=None):
     jb = np.argmax(over, axis=1)  # first point at or beyond the wall
     r = np.arange(X.shape[0])
     ja = jb - 1
-    if np.any(ja < 0) or np.any(~np.isfinite(X[r, ja])):
+    good = reach & (ja >= 0)
+    good[good] &= np.isfinite(X[r[good], ja[good]])
+    if strict and not np.all(good):
         raise ComputationError("the wall lies before the first point of a C+ characteristic; "
                                "the net does not start inside the nozzle.")
+    ja = np.where(good, ja, 0)
+    jb = np.where(good, jb, 1)
     fa, fb = f[r, ja], f[r, jb]
     dl = np.hypot(X[r, jb] - X[r, ja], Y[r, jb] - Y[r, ja])
-    need = target - cum[r, ja]
+    need = tgt - cum[r, ja]
     # need = dl (fa tau + (fb - fa) tau^2 / 2), 0 <= tau <= 1
     qa = 0.5 * (fb - fa) * dl
     qb = fa * dl
-    disc = np.sqrt(np.maximum(qb * qb + 4.0 * qa * need, 0.0))
     with np.errstate(divide="ignore", invalid="ignore"):
+        disc = np.sqrt(np.maximum(qb * qb + 4.0 * qa * need, 0.0))
         tau = np.where(np.abs(qa) > 1e-14 * np.abs(qb), 2.0 * need / (qb + disc), need / qb)
     tau = np.clip(tau, 0.0, 1.0)
-    out = {"col": ja, "cumulative": cum}
+    out = {"col": np.where(good, ja, -1), "cumulative": cum}
+    nan = np.where(good, 0.0, np.nan)
     for k, A in (("x", X), ("y", Y), ("theta", TH), ("nu", NU), ("mu", MU)):
-        out[k] = A[r, ja] + tau * (A[r, jb] - A[r, ja])
+        out[k] = A[r, ja] + tau * (A[r, jb] - A[r, ja]) + nan
     return out
 
 

@@ -195,3 +195,21 @@ def test_axisymmetric_convergence(me, g):
     tc = np.array([s["corner_angle_deg"] for s in res])
     d = np.abs(np.diff(tc))
     assert d[-1] < d[0] / 8
+
+
+@pytest.mark.parametrize("me, geometry, n", [(1.5, "planar", 5), (4.0, "planar", 25), (6.0, "axisymmetric", 12),
+                                             (2.4, "planar", 100), (4.0, "axisymmetric", 50)])
+def test_cells_tile_the_flow_region(me, geometry, n):
+    # exact invariant (common practice for a mesh): positive cell areas that sum to the area
+    # of the region bounded by the first fan ray, the wall, the exit characteristic and the axis
+    r = design_minimum_length(me, 1.4, geometry, n)
+    px, py = r.net.x[r.net.cells], r.net.y[r.net.cells]
+    area = 0.5 * np.sum(px * np.roll(py, -1, 1) - np.roll(px, -1, 1) * py, axis=1)
+    assert np.all(area > 0)
+    w = r.wall
+    poly_x = np.concatenate([w["x"], [r.exit["x"][0], r.axis["x"][1]]])
+    poly_y = np.concatenate([w["y"], [0.0, 0.0]])
+    poly = 0.5 * abs(np.sum(poly_x * np.roll(poly_y, -1) - np.roll(poly_x, -1) * poly_y))
+    assert area.sum() == pytest.approx(poly, rel=1e-10)
+    # every point is used by some cell, and labels are consistent with the grid
+    assert np.unique(r.net.cells).size == r.net.size

@@ -411,7 +411,7 @@ def _build_net(full, inside, corner, wallpts, n, m):
     extra = []
     # corner fan: triangles between consecutive rays next to the corner
     for j in range(n - 1):
-        extra.append((c0 + j + 1, idx[0, j], idx[0, j + 1], c0 + j + 1))
+        extra.append((c0 + j, idx[0, j], idx[0, j + 1], c0 + j))
     last = [int(np.flatnonzero(inside[i])[-1]) for i in range(ni)]
     # from the corner to the wall along C+ 0
     chain0 = [idx[0, j] for j in range(n - 1, last[0] + 1)] + [w0]

@@ -108,7 +108,7 @@ def residual(beta, up, xp, yp, front, gamma, delta, ang=None):
     return r, d
 
 
-def solve_beta(up, xp, yp, front, gamma, delta, outer=4):
+def solve_beta(up, xp, yp, front, gamma, delta, outer=10):
     """Weak-root shock angle at P matching the downstream C- from `front`.
 
     Returns (status, beta, downstream dict): status "ok", "vanishes" (the

@@ -237,6 +237,7 @@ def _design(me, g, delta, n, nue):
     cached = _LAST.pop((float(theta_c), n, g, delta, power), None)
     _LAST.clear()
     (kgrid, axis_x, axis_nu), fan = cached or _kernel(theta_c, n, g, delta, power)
+    del cached
     nu_e = axis_nu[-1]  # = nue to the root tolerance (exactly for planar)
     mu_e = float(mu_of_nu(np.array([nu_e]), g)[0])
 
@@ -263,7 +264,9 @@ def _design(me, g, delta, n, nue):
         A = getattr(full, k)
         A[:, :n] = getattr(kgrid, k)
         A[:, n:] = getattr(ggrid, k)[:, 1:]
+    del ggrid, kcum
     wall = mass_balance_wall(full, g, delta, F0)
+    del wall["cumulative"]
 
     # corner (start of the wall): downstream side of the fan
     corner = Points(np.zeros(n), np.ones(n), fan, fan, mu_of_nu(fan, g))
@@ -285,6 +288,7 @@ def _design(me, g, delta, n, nue):
     # mass balance across the C- rays of the kernel (corner to axis) and across
     # the exit C+ to (n-1, j) then the C- j up to the wall, for the check
     mass_err = _mass_check(full, kgrid, corner, wall, g, delta, n, F0)
+    del kgrid
 
     # exit characteristic: points of the exit C+ inside the wall, then the lip
     inside = np.isfinite(full.x) & (np.arange(n + m)[None, :] <= wall["col"][:, None])

@@ -62,10 +62,13 @@ def zipper(chain_a, chain_b, x, y):
 
 
 def orient_ccw(cells, x, y):
-    """Reverse cells whose signed (shoelace) area is negative."""
+    """Reverse cells whose signed (shoelace) area is negative (column by column, to
+    keep the temporaries small for large nets)."""
     cells = np.asarray(cells, dtype=np.int64).reshape(-1, 4)
-    px, py = x[cells], y[cells]
-    area = 0.5 * np.sum(px * np.roll(py, -1, axis=1) - np.roll(px, -1, axis=1) * py, axis=1)
+    area = np.zeros(cells.shape[0])
+    for k in range(4):
+        a, b = cells[:, k], cells[:, (k + 1) % 4]
+        area += x[a] * y[b] - x[b] * y[a]
     flip = area < 0.0
     cells[flip] = cells[flip][:, ::-1]
     return cells

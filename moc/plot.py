@@ -292,28 +292,67 @@ def plot_mach_field(result, ax=None, levels=24, show_net=True):
     return fig
 
 
-def _fill_uniform_region(ax, result, scale, mappable):
-    """Shade the uniform region downstream of the exit characteristic in the exit Mach colour.
+def _uniform_boundary(result):
+    """(x, y, M) along the characteristic that bounds a design's uniform exit region, or None.
 
     A designed nozzle's net ends on the C+ characteristic that leaves the axis
-    where M reaches the exit value; between it, the axis and the exit plane the
-    flow is uniform and the net has no points.  Nothing is drawn when the exit
-    profile is a plane (x constant) or is not uniform.
+    where M reaches the exit value; downstream of it the flow is uniform and
+    the net has no points.  That line is the C+ of the net that starts on the
+    axis furthest downstream, with a constant Mach number along it; failing
+    that, the exit profile when it is such a line (x not constant).
     """
+    if result.kind != "design":
+        return None
+    net = result.net
+    x_end = float(_arr(result.wall, "x").max()) if _arr(result.wall, "x").size else None
+    if x_end is None or net.size < 2:
+        return None
+    tol_y = 1e-9 * max(1.0, float(np.nanmax(np.abs(net.y))))
+    best = None
+    for idx in net.lines("+"):
+        if idx.size >= 2 and abs(net.y[idx[0]]) <= tol_y and (best is None or net.x[idx[0]] > net.x[best[0]]):
+            best = idx
+    cand = []
+    if best is not None:
+        cand.append((net.x[best], net.y[best], net.mach[best]))
     ex, ey, em = _arr(result.exit, "x"), _arr(result.exit, "y"), _arr(result.exit, "mach")
-    if ex.size < 2 or ey.size != ex.size or em.size != ex.size:
+    if ex.size >= 2 and ey.size == ex.size and em.size == ex.size:
+        o = np.argsort(ey)
+        cand.append((ex[o], ey[o], em[o]))
+    for x, y, m in cand:
+        ok = np.isfinite(x) & np.isfinite(y) & np.isfinite(m)
+        x, y, m = x[ok], y[ok], m[ok]
+        if x.size < 2 or x_end - x[0] < 1e-6 * max(1.0, abs(x_end)):
+            continue
+        if np.ptp(m) > 1e-3 * max(1.0, float(m.mean())):
+            continue
+        keep = x <= x_end + 1e-12
+        return x[keep], y[keep], float(m.mean()), x_end
+    return None
+
+
+def _fill_uniform_region(ax, result, scale, mappable):
+    """Shade the uniform region downstream of the last characteristic in the exit Mach colour.
+
+    Nothing is drawn for analyses, or when no bounding characteristic with a
+    uniform Mach number is found (see _uniform_boundary).
+    """
+    b = _uniform_boundary(result)
+    if b is None:
         return
-    x_end = max(float(ex.max()), float(_arr(result.wall, "x").max()) if _arr(result.wall, "x").size else -np.inf)
-    o = np.argsort(ey)
-    ex, ey = ex[o], ey[o]
-    if x_end - ex[0] < 1e-6 * max(1.0, abs(x_end)) or np.ptp(em) > 1e-3 * max(1.0, float(em.mean())):
+    x, y, m, x_end = b
+    if x.size < 2:
         return
-    poly = np.vstack([np.column_stack([ex, ey]), [[x_end, 0.0], [ex[0], 0.0]]]) * scale
-    colour = mappable.cmap(mappable.norm(float(em.mean())))
+    pts = [np.column_stack([x, y])]
+    if x[-1] < x_end:
+        pts.append([[x_end, y[-1]]])
+    pts.append([[x_end, 0.0], [x[0], 0.0]])
+    poly = np.vstack(pts) * scale
+    colour = mappable.cmap(mappable.norm(m))
     ax.fill(poly[:, 0], poly[:, 1], color=colour, linewidth=0, zorder=1)
-    cx = (ex[0] + 2.0 * x_end) / 3.0 * scale
-    cy = ey[-1] / 3.0 * scale
-    ax.text(cx, cy, f"uniform, M = {float(em.mean()):.4g}", ha="center", va="center", fontsize=8.5, color=INK,
+    cx = (x[0] + 2.0 * x_end) / 3.0 * scale
+    cy = float(np.interp(cx / scale, x, y)) / 3.0 * scale
+    ax.text(cx, cy, f"uniform, M = {m:.4g}", ha="center", va="center", fontsize=8.5, color=INK,
             bbox=dict(boxstyle="round,pad=0.2", facecolor="white", edgecolor="none", alpha=0.75), zorder=3)
 
 

@@ -319,3 +319,27 @@ def test_wall_with_inlet_dimensions_the_inlet_face(res):
     assert "inlet 30 mm" in texts
     lo, hi = ax.get_xlim()
     assert lo < -30.0 and hi > r.wall["x"].max() * 10
+
+
+def test_uniform_exit_region_of_a_real_design_is_shaded():
+    # Downstream of the last C+ from the axis a minimum-length nozzle's flow is
+    # uniform at Me (the design condition; Anderson, Modern Compressible Flow,
+    # nozzle design, from memory): the figure shades that triangle in the colour of Me
+    # and its corners are the axis point, the wall exit and the exit on the axis.
+    try:
+        from moc.design import design_minimum_length
+    except ImportError:
+        pytest.skip("the minimum-length designer is not in this tree")
+    from moc import plot
+
+    r = design_minimum_length(2.0, 1.4, "planar", 12)
+    fig = plot.plot_mach_field(r)
+    ax = fig.axes[0]
+    assert any(t.get_text() == "uniform, M = 2" for t in ax.texts)
+    polys = [p for p in ax.patches if p.get_zorder() == 1]
+    assert len(polys) == 1
+    xy = polys[0].get_xy()
+    x_end = r.wall["x"].max()
+    assert xy[:, 0].max() == pytest.approx(x_end)
+    assert xy[:, 1].min() == pytest.approx(0.0, abs=1e-12)
+    assert xy[:, 1].max() == pytest.approx(r.wall["y"][-1], rel=1e-6)

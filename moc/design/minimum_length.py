@@ -28,7 +28,7 @@ import math
 import numpy as np
 
 from moc.errors import ComputationError, InputError, MachError
-from moc.flow import area_ratio, nu_max, pressure_ratio, prandtl_meyer
+from moc.flow import area_ratio, pressure_ratio, prandtl_meyer
 from moc.flow._checks import check_gamma
 from moc.net._pm import mu_of_nu
 from moc.net.assemble import grid_cells, net_arrays, zipper

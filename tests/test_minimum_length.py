@@ -133,6 +133,17 @@ def test_bad_input(kwargs, err):
     assert str(e.value).endswith(".")
 
 
+def test_gas_object_accepted():
+    # moc.gas.PerfectGas carries gamma (common practice: one gas object through the tool)
+    from moc.gas import PerfectGas
+
+    a = design_minimum_length(2.0, PerfectGas(1.3), "planar", 10).summary
+    b = design_minimum_length(2.0, 1.3, "planar", 10).summary
+    assert a["gamma"] == 1.3 and a["length"] == b["length"]
+    # Source: nu(2) = 28.6809 deg for gamma = 1.3 (VALIDATION.md, closed form)
+    assert a["corner_angle_deg"] == pytest.approx(28.6809 / 2, abs=1e-4)
+
+
 def test_turning_limit_is_stated():
     # the limit follows from nu(Me)/2 < 90 deg (common practice statement of the corner limit)
     g = 1.1

@@ -198,3 +198,8 @@ def test_bad_net_input():
     with pytest.raises(InputError, match="meet"):
         goursat(a, b, G, 0)
     assert isinstance(a, Points)
+    line = polar(2.0, np.linspace(0.0, 0.2, 5), 1)
+    with pytest.raises(InputError, match="x_end"):
+        march_from_line(line, G, 1, wall=lambda x: (x * 0.2, np.full_like(x, 0.2)))
+    with pytest.raises(InputError, match="two points"):
+        goursat(a.take(slice(0, 1)), b.take(slice(0, 1)), G, 0)

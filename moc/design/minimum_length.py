@@ -56,7 +56,7 @@ def fan_angles(theta_c, n, power=CLUSTER_POWER):
 
 
 def _check_inputs(exit_mach, gamma, geometry, n):
-    g = check_gamma(gamma)
+    g = check_gamma(getattr(gamma, "gamma", gamma))  # a number or a moc.gas.PerfectGas
     if geometry not in GEOMETRIES:
         raise InputError(f"geometry must be 'planar' or 'axisymmetric', got {geometry!r}.")
     try:
@@ -218,7 +218,8 @@ def _secant(f, t0, slope, tol, maxiter=12):
 def design_minimum_length(exit_mach, gamma=1.4, geometry="axisymmetric", n=50):
     """Design a minimum-length nozzle for exit Mach number `exit_mach`.
 
-    n: number of characteristics (fan rays).  Returns a `moc.result.Result`
+    gamma: ratio of specific heats (or a `moc.gas.PerfectGas`).  n: number of
+    characteristics (fan rays).  Returns a `moc.result.Result`
     (kind "design"); lengths in throat half-heights (planar) or radii.
     """
     me, g, delta, n, nue = _check_inputs(exit_mach, gamma, geometry, n)

@@ -121,7 +121,8 @@ def test_shock_far_from_wall_tends_to_oblique_shock_of_total_turning():
     turn = math.radians(10.0)
     r = analyze(concave_arc(2.0, turn, 10.0, 20.0), 1.4, "planar", n=40, start="uniform", mach_in=2.0)
     sh = r.shocks[0]
-    assert sh["p2_p1"][0] < 1.05  # it starts as a weak wave at the coalescence point
+    # a wave of total turning 10 deg cannot make a stronger shock than the oblique shock of 10 deg
+    assert np.max(sh["p2_p1"]) < 1.7066 + 2e-3
     assert math.degrees(sh["beta"][-1]) == pytest.approx(39.314, abs=0.05)
     assert sh["p2_p1"][-1] == pytest.approx(1.7066, abs=3e-3)
     # total pressure falls across the shock and never rises anywhere (entropy condition, second law)

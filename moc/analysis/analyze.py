@@ -18,7 +18,7 @@ from moc.analysis.march import march
 from moc.analysis.reflect import flip, reflect, region_triangle_index
 from moc.analysis.shockfit import UpstreamField, fit_shock
 from moc.errors import InputError
-from moc.flow import oblique_shock, prandtl_meyer, shock_angle
+from moc.flow import max_deflection, oblique_shock, prandtl_meyer, shock_angle
 from moc.flow._checks import check_gamma
 from moc.net import rotational as rp
 from moc.result import Net, Result
@@ -157,13 +157,30 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
                 st = {k: float(np.nanmean([D[k][i, j] for i, j in corners])) for k in KEYS}
                 st["x"], st["y"] = cr.x, cr.y
                 st["mach"] = float(rp.mach_of_nu(np.array([st["nu"]]), g)[0])
-                front0 = {k: np.concatenate([[st[k]], D[k][idx_a, idx_d]]) for k in KEYS}
+                # the two crossing C- characteristics carry the states on either side of the young shock:
+                # it starts with the deflection between them (weak root), which vanishes as the net is refined
+                down = [(a + 1, d + 1), (a + 1, d)]
+                th_b = float(np.nanmean([D["theta"][i, j] for i, j in down if i < net.rows]))
+                dfl = st["theta"] - th_b
+                mu = math.asin(1.0 / st["mach"])
+                beh = dict(st)
+                start_shock = dict(x=cr.x, y=cr.y, phi=st["theta"] - mu, beta=mu, theta1=st["theta"],
+                                   m1=st["mach"], m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"],
+                                   deflection=0.0)
+                if np.isfinite(dfl) and dfl > 0:
+                    tmax, _ = max_deflection(st["mach"], g)
+                    if dfl < 0.9 * float(tmax):
+                        sst = oblique_shock(st["mach"], dfl, g)
+                        b0 = float(sst.beta)
+                        beh.update(theta=st["theta"] - dfl, mach=float(sst.m2),
+                                   nu=float(prandtl_meyer(float(sst.m2), g)),
+                                   lnp0=st["lnp0"] + math.log(float(sst.p02_p01)))
+                        start_shock.update(phi=st["theta"] - b0, beta=b0, m2=float(sst.m2), p2_p1=float(sst.p2_p1),
+                                           p02_p01=float(sst.p02_p01), deflection=dfl)
+                front0 = {k: np.concatenate([[beh[k]], D[k][idx_a, idx_d]]) for k in KEYS}
                 fin = np.isfinite(front0["mach"])
                 front0 = {k: v[fin] for k, v in front0.items()}
                 front0["cm"] = np.concatenate([[-1], idx_a])[fin]
-                mu = math.asin(1.0 / st["mach"])
-                start_shock = dict(x=cr.x, y=cr.y, phi=st["theta"] - mu, beta=mu, theta1=st["theta"], m1=st["mach"],
-                                   m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"], deflection=0.0)
                 y_ref = float(wall.y_of(cr.x))
     fit = None
     chain = []  # (fit, frame): frame +1 real coordinates, -1 mirrored (a C+ shock)

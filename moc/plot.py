@@ -8,9 +8,9 @@ half-heights / radii.  Angles are shown in degrees.
 The look is this project's own: the two characteristic families differ in
 colour *and* line style (C+ solid, C- dashed) so grey-scale prints keep them
 apart; colours come from a colour-blind-safe set (Okabe and Ito, "Color
-Universal Design", 2008) and the Mach field uses the perceptually uniform,
-colour-vision-deficiency-friendly ``cividis`` map (Nunez, Anderton and
-Renslow, PLOS ONE 13(7), 2018).
+Universal Design", 2008, from memory) and the Mach field uses the
+perceptually uniform, colour-vision-deficiency-friendly ``cividis`` map
+(Nunez, Anderton and Renslow, PLOS ONE 13(7), 2018, from memory).
 
 Public API: plot_net, plot_mach_field, plot_wall, plot_distributions,
 plot_exit, plot_shocks, plot_overview, figure_for, unavailable,
@@ -135,7 +135,10 @@ def _arr(d, key):
     v = d.get(key) if isinstance(d, dict) else None
     if v is None:
         return np.zeros(0)
-    return np.asarray(v, dtype=float).ravel()
+    try:
+        return np.asarray(v, dtype=float).ravel()
+    except (TypeError, ValueError):
+        raise InputError(f"the result's {key!r} array is not numeric; the saved result is damaged.") from None
 
 
 def _require_wall(result):
@@ -166,7 +169,8 @@ def _draw_wall(ax, result, scale, label="wall"):
 
 
 def _draw_axis(ax, result, scale):
-    xs = [a for a in (_arr(result.wall, "x"), _arr(result.inlet, "x"), result.net.x) if a.size]
+    xs = [a[np.isfinite(a)] for a in (_arr(result.wall, "x"), _arr(result.inlet, "x"), result.net.x)]
+    xs = [a for a in xs if a.size]
     if not xs:
         return
     lo = min(float(a.min()) for a in xs)

@@ -221,7 +221,10 @@ def refinement_study(fine, coarse, order=RICHARDSON_ORDER):
     qf, qc = _quantities(fine), _quantities(coarse)
     nf, nc = fine.summary.get("characteristics"), coarse.summary.get("characteristics")
     ratio_n = 2.0
-    if isinstance(nf, (int, float)) and isinstance(nc, (int, float)) and nf > nc > 0:
+    if isinstance(nf, (int, float)) and isinstance(nc, (int, float)):
+        if not nf > nc > 0:
+            raise InputError(f"the coarse result has {nc} characteristics and the reported one {nf}; "
+                             "the coarse net must have fewer characteristics (normally half).")
         ratio_n = float(nf) / float(nc)
     factor = ratio_n**order - 1.0
     exact = exact_values(fine)

@@ -219,6 +219,10 @@ def test_cli_report(tmp_path, capsys, shock_result):
     assert "Discretisation error from a coarser net" in text
     assert main(["report", str(d), "-o", str(out)]) == 2
     assert "--force" in capsys.readouterr().err
+    # a 'coarse' result that is not coarser is refused with exit status 2
+    assert main(["report", str(coarse), "-o", str(tmp_path / "x.html"), "--coarse", str(d)]) == 2
+    assert "fewer characteristics" in capsys.readouterr().err
+    assert not (tmp_path / "x.html").exists()
     assert main(["report", str(d), "-o", str(out), "--dpi", "0", "--force"]) == 2
 
 

@@ -266,7 +266,7 @@ def coarse_design(result):
     inputs = result.inputs or {}
     noz = inputs.get("nozzle")
     if not isinstance(noz, dict) or "characteristics" not in noz:
-        return None
+        return _coarse_from_designer_inputs(inputs)
     try:
         from moc.io.case import SCHEMA, validate
         from moc.pipeline import run_case
@@ -296,6 +296,31 @@ def coarse_design(result):
         return run_case(case)
     except (InputError, ComputationError):
         return None
+
+
+def _coarse_from_designer_inputs(d):
+    """Coarse net for a Result made by a designer called directly (its inputs are the designer's arguments)."""
+    try:
+        n = int(d["characteristics"])
+        common = dict(exit_mach=float(d["exit_mach"]), gamma=float(d["gamma"]), geometry=str(d["geometry"]))
+    except (KeyError, TypeError, ValueError):
+        return None
+    nc = max(3, n // 2)
+    if nc >= n or d.get("truncate"):
+        return None
+    try:
+        if d.get("method") == "minimum_length":
+            from moc.design import design_minimum_length
+
+            return design_minimum_length(n=nc, **common)
+        if d.get("method") == "gradual":
+            from moc.design.gradual import design_gradual
+
+            kw = {k: d[k] for k in ("throat_curvature", "inflection_deg", "throat_solution") if d.get(k) is not None}
+            return design_gradual(n=nc, **common, **kw)
+    except (ImportError, InputError, ComputationError):
+        return None
+    return None
 
 
 def _restore_gradual(raw, inputs):

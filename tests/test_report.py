@@ -351,3 +351,16 @@ def test_coarse_recompute_keeps_the_method_and_truncation():
     ct = coarse_design(t)
     assert ct.summary.get("truncated") and ct.summary["length"] == pytest.approx(t.summary["length"], rel=2e-2)
     assert "area_ratio" not in exact_values(t)
+
+
+@pytest.mark.skipif(not _design_api(), reason="the minimum-length designer is not in this tree yet")
+def test_coarse_net_of_a_design_made_from_python():
+    # A Result from design_minimum_length (no case file) is recomputed with n/2 too;
+    # its exit area ratio stays the exact A/A*(2.4) = 2.40310 (NACA Report 1135).
+    from moc.design import design_minimum_length
+    from moc.report import coarse_design
+
+    r = design_minimum_length(2.4, 1.4, "planar", 16)
+    c = coarse_design(r)
+    assert c is not None and c.summary["characteristics"] == 8
+    assert c.summary["area_ratio"] == pytest.approx(2.40310, rel=1e-5)

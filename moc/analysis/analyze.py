@@ -297,7 +297,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
                     q = [int(gidx[kk][ii]) for kk, ii in t]
                     if min(q) >= 0:
                         cl.append(q + [q[-1]])
-            if frame == +1 and m > 1 and keep[-1]:
+            if frame == +1 and m > 1 and keep[-1] and bool(F0.get("at_wall", True)):
                 for k in KEYS:
                     wall_pts[k] = np.append(wall_pts[k], F[k][-1])
     allp = {k: np.concatenate([p[k] for p in parts]) for k in KEYS}

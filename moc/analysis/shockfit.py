@@ -157,6 +157,8 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
     fate, detail, end, refl = "stopped", "the step limit was reached", None, None
     weak_run = 0
     merged = 0
+    lnw = float(F["lnp0"][-1])  # total pressure on the wall streamline
+    x_beyond = x_stop + 2.0 * step
     def to_boundary(x0, y0, ph, st):
         """Distance along direction ph from (x0, y0) to the lower boundary (secant steps)."""
         if lower is None:
@@ -255,6 +257,7 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         j0 = d["q_index"] + 1 if nF > 1 else nF
         L = _pt(pts[0])
         broke = False
+        at_wall = True
         used = [-1]
         skipped = 0
         for m in range(j0, nF):
@@ -268,6 +271,10 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
             pts.append({k: float(P[k]) for k in KEYS} | {"cm": int(F["cm"][m])})
             used.append(m)
             L = P
+            if float(P["x"]) > x_beyond:
+                # past the exit plane: nothing downstream of it can act on the nozzle flow; the front ends here
+                at_wall = False
+                break
         merged += skipped
         if skipped and (len(pts) < 2 or skipped > max(3, (nF - j0) // 2)):
             broke = True
@@ -277,8 +284,20 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
                       f"y = {float(L['y']) * frame:.5g} (a second shock would form there; not tracked): the march stops")
             warnings.append("shock " + detail + ".")
             break
-        Wp = rp.wall_point(L, wall, gamma, delta, lnp0_wall=np.asarray(F["lnp0"][-1]))
-        if not np.isfinite(Wp["mach"]) or not float(Wp["x"]) > float(F["x"][-1]):
+        if not at_wall:
+            origin.append(np.array(used, dtype=np.int64))
+            F = _stack(pts)
+            F["at_wall"] = np.array(False)
+            fronts.append(F)
+            if final:
+                final = False
+            if xs > x_stop:
+                fate, end = "exit", (xs, ys)
+                detail = f"leaves through the exit plane at y = {frame * np.interp(x_stop, sh['x'], sh['y']):.5g}"
+                break
+            continue
+        Wp = rp.wall_point(L, wall, gamma, delta, lnp0_wall=np.asarray(lnw))
+        if not np.isfinite(Wp["mach"]) or not float(Wp["x"]) > float(L["x"]) - 1e-12:
             fate, end = "wall_lost", (xs, ys)
             if float(L["mach"]) < 1.1:
                 detail = (f"the flow behind the shock slows to sonic speed at the wall near x = {float(F['x'][-1]):.5g} "
@@ -290,6 +309,8 @@ def fit_shock(upstream, wall, start, front0, gamma, delta, step, x_stop, max_ste
         pts.append({k: float(Wp[k]) for k in KEYS} | {"cm": new_label()})
         origin.append(np.array(used + [-1], dtype=np.int64))
         F = _stack(pts)
+        F["at_wall"] = np.array(True)
+        lnw = float(Wp["lnp0"])
         fronts.append(F)
         if final:
             final = False  # the next pass finds the shock on the boundary and ends it there

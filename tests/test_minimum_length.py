@@ -224,3 +224,27 @@ def test_cells_tile_the_flow_region(me, geometry, n):
     assert area.sum() == pytest.approx(poly, rel=1e-10)
     # every point is used by some cell, and labels are consistent with the grid
     assert np.unique(r.net.cells).size == r.net.size
+
+
+def test_planar_turning_region_is_a_simple_wave():
+    # Source: Anderson, Modern Compressible Flow, planar minimum-length nozzle (from memory):
+    # between the last fan ray and the exit characteristic the planar flow is a simple wave,
+    # each C+ a straight line of constant theta and M.  The Goursat solver (the same code as
+    # for axisymmetric flow) must reproduce it to round-off.
+    n = 30
+    r = design_minimum_length(2.4, 1.4, "planar", n)
+    net = r.net
+    nj = 2 * n + 3  # grid C- labels: n fan rays, then n + 3 turning-region lines
+    for i in range(n):
+        sel = (net.cplus == i) & (net.cminus >= n - 1) & (net.cminus < nj)
+        if np.count_nonzero(sel) < 2:
+            continue
+        th, m = net.theta[sel], net.mach[sel]
+        assert np.ptp(th) < 1e-12 and np.ptp(m) < 1e-10
+        x, y = net.x[sel], net.y[sel]
+        ang = np.arctan2(np.diff(y), np.diff(x))
+        assert np.ptp(ang) < 1e-9
+    # and the axisymmetric turning region is not a simple wave (theta varies along a C+)
+    a = design_minimum_length(2.4, 1.4, "axisymmetric", n).net
+    sel = (a.cplus == n // 2) & (a.cminus >= n - 1) & (a.cminus < nj)
+    assert np.ptp(a.theta[sel]) > 1e-4

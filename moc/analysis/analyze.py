@@ -439,6 +439,21 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         wall_pts = {k: v[wk] for k, v in wall_pts.items()}
     wall_out = {"x": wall_pts["x"], "y": wall_pts["y"], "theta": wall_pts["theta"], "mach": wall_pts["mach"],
                 "p_p0": np.exp(wall_pts["lnp0"]) * (1 + 0.5 * (g - 1) * wall_pts["mach"] ** 2) ** (-g / (g - 1))}
+    # the contour's own points between computed wall points, so that the written wall has its true shape
+    # (flow values there linear in x between the computed wall points; "computed" marks which are which)
+    fin = np.isfinite(wall_out["mach"])
+    if np.count_nonzero(fin) >= 2:
+        xc = wall.x[(wall.x > wall_out["x"][fin].min()) & (wall.x < wall_out["x"][fin].max())]
+        xc = xc[~np.isin(xc, wall_out["x"])]
+        if xc.size:
+            extra_pts = {"x": xc, "y": wall.y_of(xc), "theta": wall.angle(xc)}
+            for k in ("mach", "p_p0"):
+                extra_pts[k] = np.interp(xc, wall_out["x"][fin], wall_out[k][fin])
+            comp = np.concatenate([np.ones(wall_out["x"].size, bool), np.zeros(xc.size, bool)])
+            wall_out = {k: np.concatenate([wall_out[k], extra_pts[k]]) for k in wall_out}
+            o = np.argsort(wall_out["x"], kind="stable")
+            wall_out = {k: v[o] for k, v in wall_out.items()}
+            wall_out["computed"] = comp[o].astype(np.int8)
     ax = allp["y"] <= 1e-12
     o = np.argsort(allp["x"][ax])
     axis_out = {"x": allp["x"][ax][o], "mach": allp["mach"][ax][o],

@@ -128,3 +128,19 @@ def test_shock_far_from_wall_tends_to_oblique_shock_of_total_turning():
     # total pressure falls across the shock and never rises anywhere (entropy condition, second law)
     assert np.all(sh["p02_p01"] <= 1.0 + 1e-12)
     assert np.max(r.net.p0_ratio) <= 1.0 + 1e-12
+
+
+def test_shock_train_between_wall_and_centre_line_conserves_mass():
+    # Exact invariants (common practice): a shock reflecting back and forth between the wall and the centre line
+    # alternates families, loses total pressure at each crossing and never gains it, and the mass flow leaving the
+    # exit equals the mass flow entering.  Invented case: 5 deg circular-arc ramp (R = 5) in a Mach 2.5 stream.
+    r = analyze(concave_arc(5.0, math.radians(5.0), 1.0, 6.0), 1.4, "planar", n=30, start="uniform", mach_in=2.5)
+    s = r.summary
+    fams = [sh["family"] for sh in s["shocks"]]
+    assert len(fams) >= 4
+    assert all(f == ("C-" if i % 2 == 0 else "C+") for i, f in enumerate(fams))
+    assert all(sh["fate"].startswith("reflects") for sh in s["shocks"][:-1])
+    assert s["shocks"][-1]["fate"] == "exit" and s["march_complete"] is True
+    assert s["mass_flow_ratio"] == pytest.approx(1.0, abs=5e-3)
+    assert float(np.max(r.net.p0_ratio)) <= 1.0 + 1e-12
+    assert all(sh["total_pressure_ratio"] < 1.0 for sh in s["shocks"])

@@ -15,7 +15,7 @@ import numpy as np
 from moc.analysis import exitflow
 from moc.analysis.coalescence import first_crossing, unfolded_cells
 from moc.analysis.march import march
-from moc.analysis.reflect import flip, reflect, region_triangle_index
+from moc.analysis.reflect import _Axis, flip, reflect, region_triangle_index
 from moc.analysis.shockfit import UpstreamField, fit_shock
 from moc.errors import InputError
 from moc.flow import max_deflection, oblique_shock, prandtl_meyer, shock_angle
@@ -124,6 +124,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     # --- where does a shock start? ---------------------------------------
     th_w0 = wall.angle_start
     start_shock = None
+    mirror_start = None
     if start == "uniform" and th_w0 < -1e-12:
         m1 = float(mach_in)
         dfl = -th_w0
@@ -141,9 +142,44 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         if cr is not None and cr.x <= x_end:
             coalescence = {"x": cr.x, "y": cr.y, "family": cr.family, "kind": "crossing of characteristics",
                            "cell_size": cr.cell_size}
-            if cr.family != "C-":
-                warnings.append(f"characteristics of the C+ family cross at x = {cr.x:.5g}, y = {cr.y:.5g}; "
-                                "a shock of that family is not tracked by this version, so the flow past it is not computed.")
+            if cr.family == "C+":
+                # a C+ shock: fitted as a C- shock in the mirror image (x, -y, -theta), axis as its wall
+                a, d = cr.cell
+                D = net.data
+                upc = [(a, d), (a + 1, d + 1)]  # the earlier C+ of the folded cell
+                dnc = [(a, d - 1), (a + 1, d)]  # the later one
+                st = {k: float(np.nanmean([D[k][i, j] for i, j in upc if i < net.rows])) for k in KEYS}
+                st["x"], st["y"] = cr.x, cr.y
+                st["mach"] = float(rp.mach_of_nu(np.array([st["nu"]]), g)[0])
+                th_b = float(np.nanmean([D["theta"][i, j] for i, j in dnc if i < net.rows]))
+                jd = np.arange(d - 1, -1, -1)
+                front0 = {k: np.concatenate([[st[k]], D[k][np.full(jd.size, a), jd]]) for k in KEYS}
+                fin = np.isfinite(front0["mach"])
+                front0 = {k: v[fin] for k, v in front0.items()}
+                front0["cm"] = np.concatenate([[-1], np.full(jd.size, a)])[fin]
+                stm = flip(st)
+                dfl = th_b - st["theta"]
+                mu = math.asin(1.0 / st["mach"])
+                start_shock = dict(x=cr.x, y=-cr.y, phi=stm["theta"] - mu, beta=mu, theta1=stm["theta"],
+                                   m1=st["mach"], m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"],
+                                   deflection=0.0)
+                beh = dict(stm)
+                if np.isfinite(dfl) and dfl > 0:
+                    tmax, _ = max_deflection(st["mach"], g)
+                    if dfl < 0.9 * float(tmax):
+                        sst = oblique_shock(st["mach"], dfl, g)
+                        b0 = float(sst.beta)
+                        beh.update(theta=stm["theta"] - dfl, mach=float(sst.m2),
+                                   nu=float(prandtl_meyer(float(sst.m2), g)),
+                                   lnp0=st["lnp0"] + math.log(float(sst.p02_p01)))
+                        start_shock.update(phi=stm["theta"] - b0, beta=b0, m2=float(sst.m2), p2_p1=float(sst.p2_p1),
+                                           p02_p01=float(sst.p02_p01), deflection=dfl)
+                front0m = flip(front0)
+                front0m["theta"][0], front0m["mach"][0] = beh["theta"], beh["mach"]
+                front0m["nu"][0], front0m["lnp0"][0] = beh["nu"], beh["lnp0"]
+                mirror_start = (front0m, start_shock)
+                start_shock = None
+                y_ref = float(wall.y_of(cr.x))
             else:
                 a, d = cr.cell
                 D = net.data
@@ -184,10 +220,22 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
                 y_ref = float(wall.y_of(cr.x))
     fit = None
     chain = []  # (fit, frame): frame +1 real coordinates, -1 mirrored (a C+ shock)
-    if start_shock is not None:
+    if mirror_start is not None:
+        front0m, sm = mirror_start
+        step = step_factor * (y_ref / n) * min(1.0 / max(abs(math.sin(sm["phi"])), 1e-9), 1.5)
+        upm = UpstreamField(net, ok, uniform=None)
+        upm.v = flip(upm.v)
+        upm.line0 = None
+        fit = fit_shock(upm, _Axis(), sm, front0m, g, delta, step, x_end, lower=lambda x: -float(wall.y_of(x)),
+                        lower_angle=lambda x: -float(wall.angle(x)), lower_name="wall", frame=-1)
+        chain.append((fit, -1))
+        first_frame = -1
+    elif start_shock is not None:
         step = step_factor * (y_ref / n) * min(1.0 / max(abs(math.sin(start_shock["phi"])), 1e-9), 1.5)
         fit = fit_shock(up, wall, start_shock, front0, g, delta, step, x_end)
         chain.append((fit, +1))
+        first_frame = +1
+    if fit is not None:
         while len(chain) <= max_reflections:
             last, frame = chain[-1]
             if last.fate != "axis":
@@ -213,13 +261,22 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     pvalid[0, :] = np.isfinite(D["mach"][0])
     pvalid &= np.isfinite(D["mach"][:R])
     if fit is not None:
-        xb = _boundary_x(front0, fit.shock, fit.end)
+        if first_frame == +1:
+            xb0 = _boundary_x(front0, fit.shock, fit.end)
+
+            def xb(y):
+                return xb0(y)
+        else:
+            xbm = _boundary_x(mirror_start[0], fit.shock, fit.end)
+
+            def xb(y):
+                return xbm(-np.asarray(y, float))
         behind = D["x"][:R] > xb(D["y"][:R]) + 1e-12
         pvalid &= ~behind
-        if fit.fate != "exit" and fit.end is not None and len(chain) == 1:
+        if fit.fate != "exit" and fit.end is not None and len(chain) == 1 and first_frame == +1:
             # beyond the end of the tracked shock: drop what lies downstream of the C+ through its end point
             pvalid &= ~_downstream_of_cplus(D, pvalid, R, fit.end)
-    if fit is None and coalescence is not None and coalescence.get("family") != "C-":
+    if fit is None and coalescence is not None and coalescence.get("family") not in ("C-", "C+"):
         pvalid &= D["x"][:R] <= coalescence["x"]
     # region 1 arrays
     ia1, id1 = np.nonzero(pvalid)
@@ -327,7 +384,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         cfi, me_1d, pe_1d = exitflow.ideal_vacuum_cf(area_ratio, g)
         summary["thrust_coefficient_ideal_1d"] = cfi
         summary["exit_mach_ideal_1d"] = me_1d
-        wall_ahead = fit is not None and front0["x"][-1] >= x_end  # the shock region meets the wall past the exit
+        wall_ahead = fit is not None and first_frame == +1 and front0["x"][-1] >= x_end  # behind-shock region meets the wall past the exit
         if cf is not None and last_fit is not None and last_fit.fate not in ("exit", "decays", "axis") \
                 and not wall_ahead:
             warnings.append(f"the shock march stopped early ({last_fit.fate}); the thrust is not reported.")
@@ -344,6 +401,12 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     if prof["y"].size >= 3:
         mach_e = rp.mach_of_nu(prof["nu"], g)
         ex = exitflow.exit_integrals(prof, mach_e, g, delta, y_exit)
+        if start == "uniform":
+            # a wall in a stream: exit mass flow over the mass flow entering across the initial line
+            from moc.analysis.transonic import line_flux
+
+            inflow = line_flux({k: D[k][0] for k in ("x", "y", "theta", "mach", "lnp0")}, g, delta)[0]
+            ex["mass_flow_ratio"] = ex["mass_flow_ratio"] / inflow
         summary.update(ex)
         exit_arrays = {"y": prof["y"], "theta": prof["theta"], "mach": mach_e, "p0_ratio": np.exp(prof["lnp0"]),
                        "p_p0": np.exp(prof["lnp0"]) * (1 + 0.5 * (g - 1) * mach_e**2) ** (-g / (g - 1))}
@@ -402,7 +465,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         warnings.append("shock fitting in axisymmetric flow is not yet validated against a published case: "
                         "treat the shock path and strength as indicative.")
     complete = fit is None or last_fit.fate == "exit"
-    if coalescence is not None and coalescence.get("family") != "C-":
+    if coalescence is not None and fit is None:
         complete = False
     merged = sum(f_.merged for f_, _ in chain)
     summary.update({

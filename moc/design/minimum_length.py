@@ -336,6 +336,8 @@ def _design(me, g, delta, n, nue):
         "wall_points": int(wx.size),
         "mass_flow_error": mass_err,
         "wall_streamline_difference": stream_dy,
+        # the sharp-corner model starts from a straight sonic line of uniform flow: Cd = 1 by construction
+        "discharge_coefficient": 1.0,
     }
     inputs = {"method": "minimum_length", "exit_mach": me, "gamma": g,
               "geometry": summary["geometry"], "characteristics": n}

@@ -18,7 +18,7 @@ from moc.analysis.march import march
 from moc.analysis.reflect import _Axis, flip, reflect, region_triangle_index
 from moc.analysis.shockfit import UpstreamField, fit_shock
 from moc.errors import InputError
-from moc.flow import max_deflection, oblique_shock, prandtl_meyer, shock_angle
+from moc.flow import max_deflection, oblique_shock, prandtl_meyer
 from moc.flow._checks import check_gamma
 from moc.net import rotational as rp
 from moc.result import Net, Result

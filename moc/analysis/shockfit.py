@@ -23,9 +23,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from moc.flow import mach_angle, shock_angle
 from moc.net import rotational as rp
-from moc.net.shock_point import downstream, solve_beta
+from moc.net.shock_point import solve_beta
 
 KEYS = rp.KEYS
 

@@ -467,6 +467,9 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
     complete = fit is None or last_fit.fate == "exit"
     if coalescence is not None and fit is None:
         complete = False
+    if shock_list and max(e["max_pressure_ratio"] for e in shock_list) < 1.02:
+        warnings.append("every shock found is very weak (p2/p1 below 1.02): nearly parallel characteristics can "
+                        "cross through discretisation alone; repeat with a finer net (-n) before trusting it.")
     merged = sum(f_.merged for f_, _ in chain)
     summary.update({
         "merged_characteristics": int(merged),

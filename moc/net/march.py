@@ -41,7 +41,7 @@ class _Axis:
         return p
 
 
-def _pairs(front, gamma, delta, source0=None, corner=None):
+def _pairs(front, gamma, delta, source0=None, corner=None, forward=True):
     """Interior points from consecutive pairs: C+ from front[k], C- from front[k+1].
 
     `source0`: source term of front[0] when it lies on the axis.  `corner`:
@@ -57,10 +57,10 @@ def _pairs(front, gamma, delta, source0=None, corner=None):
     if corner is not None:
         guess = (a.theta + b.theta - corner.theta, a.mu + b.mu - corner.mu, a.y + b.y - corner.y)
         try:
-            return interior_point(a, b, gamma, delta, source_a=sa, guess=guess)
+            return interior_point(a, b, gamma, delta, source_a=sa, guess=guess, cminus_forward=forward)
         except ComputationError:  # a poor estimate (strong gradients): start as usual
             pass
-    return interior_point(a, b, gamma, delta, source_a=sa)
+    return interior_point(a, b, gamma, delta, source_a=sa, cminus_forward=forward)
 
 
 def _opposite(prev, prev_labels, labels):
@@ -188,7 +188,7 @@ def goursat(cminus, cplus, gamma, delta, flux0=None, flux_target=None):
             # the cell of P = (i, k) from A = (i, k-1), B = (i+1, k) has C = (i+1, k-1)
             fr_i = np.arange(lo, hi + 1)
             opp = _opposite(prev, prev_i, fr_i[1:])
-            parts.append(_pairs(front, gamma, delta, None, opp))
+            parts.append(_pairs(front, gamma, delta, None, opp, forward=False))
         prev, prev_i = front, np.arange(lo, hi + 1)
         if d <= nk - 1 and hi == ni - 1:
             parts.append(cplus.take(slice(d, d + 1)))

@@ -34,6 +34,9 @@ MAXITER = 40
 #: below this change the iteration is accepted once it stops contracting (round-off floor,
 #: reached where the two characteristics are nearly tangent, M -> 1)
 FLOOR = 1e-9
+#: gain 0.25 |s2 - s1| sin(mu) / y of the source term of a new point near the axis on its own
+#: flow angle, above which the interior point interpolates that source term (see interior_point)
+STIFF_GAIN = 0.5
 
 
 def _done(err, prev, tol):
@@ -78,7 +81,7 @@ def _intersect(xa, ya, aa, xb, yb, ab):
     return s_a, s_b
 
 
-def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None):
+def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None, cminus_forward=True):
     """New point P on the C+ through `a` and the C- through `b` (arrays of Points).
 
     `source_a` optionally gives the source term at the points `a` (needed where
@@ -87,7 +90,11 @@ def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None):
     optionally gives a starting estimate of P (NaN where none): the first pass
     is then already a corrector pass, which saves iterations when the guess is
     second-order accurate (as the parallelogram rule of a structured net is);
-    the converged point does not depend on it.
+    the converged point does not depend on it.  `cminus_forward`: P lies
+    downstream of `b` on its C- (True when marching downstream; a Goursat
+    problem may run a C- backward); a P behind `a` on its C+ (or behind `b`
+    when forward) means two characteristics of one family crossed, reported as
+    a ComputationError naming the place.
 
     Source: unit process of Zucrow and Hoffman, Gas Dynamics vol. 2 (1977),
     modified Euler predictor-corrector (from memory), written per arc length.
@@ -121,6 +128,7 @@ def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None):
             sm = np.where(ok, 0.5 * (sb + sg), sb)
     x = y = nu = None
     prev = np.inf
+    stiff = np.zeros(np.shape(a.x), dtype=bool)
     for it in range(MAXITER + 1):
         ca, sna = np.cos(alpha_p), np.sin(alpha_p)
         cb, snb = np.cos(alpha_m), np.sin(alpha_m)
@@ -148,14 +156,50 @@ def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None):
         alpha_p = 0.5 * (ap + th + mu)
         alpha_m = 0.5 * (bm + th - mu)
         if delta:
-            s_p = np.sin(mu) * np.sin(th) / y
+            snm = np.sin(mu)
+            s_p = snm * np.sin(th) / y
+            # where P lies close to the axis compared with its steps, theta_P / y_P
+            # feeds back with a gain 0.25 |s2 - s1| sin(mu) / y_P into theta_P; at
+            # 1/2 or more the pass no longer contracts (it diverges above 1).  There
+            # the source term at P is taken linear between A and B instead
+            # (sin(theta)/y is smooth and even in y: the local error stays O(h^3)).
+            stiff |= np.abs(s2 - s1) * snm >= 4.0 * STIFF_GAIN * y
+            if stiff.any():
+                # linear in x between A and B (P usually lies beyond A: extrapolated)
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    w = np.where(np.abs(dx) > 0.25 * np.abs(dy), (xn - a.x) / dx,
+                                 ((xn - a.x) * dx + (yn - a.y) * dy) / (dx * dx + dy * dy))
+                w = np.clip(w, -2.0, 3.0)
+                s_p = np.where(stiff, sa + w * (sb - sa), s_p)
             sp = 0.5 * (sa + s_p)
             sm = 0.5 * (sb + s_p)
+    return _finish(a, b, x, y, th, nu, mu, s1, s2, it, gamma, cminus_forward)
+
+
+def _finish(a, b, x, y, th, nu, mu, s1, s2, it, gamma, cminus_forward):
+    _crossing(a, b, s1, s2 if cminus_forward else np.abs(s2), it)
     # finish the Mach angle to round-off at the converged nu
     mu = mu_of_nu(nu, gamma, mu)
     p = Points(x, y, th, nu, mu)
     _check(p, "interior point", it)
     return p
+
+
+def _crossing(a, b, s1, s2, it):
+    """A new point behind A on its C+ or behind B on its C- means two characteristics of
+    one family have crossed (their envelope is where a shock forms): say so and where."""
+    scale = 1e-9 * (1.0 + np.abs(a.y) + np.abs(b.y))
+    bad = (s1 < -scale) | (s2 < -scale)
+    if it >= MAXITER:
+        bad |= ~(np.isfinite(s1) & np.isfinite(s2))
+    if np.any(bad):
+        k = int(np.flatnonzero(bad)[0])
+        fam = "C-" if s1[k] < -scale[k] else "C+"  # behind A on its C+: a C- has crossed
+        raise ComputationError(
+            f"characteristics of one family ({fam}) cross near x = {0.5 * (a.x[k] + b.x[k]):.4g}, "
+            f"y = {0.5 * (a.y[k] + b.y[k]):.4g}: the flow compresses into a shock there, and the "
+            "isentropic net cannot be continued past it."
+        )
 
 
 def _newton_t(t, nu, k, kk, c):

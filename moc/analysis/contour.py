@@ -18,6 +18,7 @@ import numpy as np
 from scipy.interpolate import CubicHermiteSpline, CubicSpline
 
 from moc.errors import ContourError
+from moc.units import METRES_PER_UNIT, normalise_length_unit
 
 MIN_POINTS = 5
 
@@ -159,21 +160,9 @@ def wall_from_points(x, y, slope=None, lines=None, description="wall from points
 
 # -- CSV ----------------------------------------------------------------------
 
-#: metres per length unit, exact by definition (BIPM, The International System of Units, 9th ed. 2019;
-#: the inch is 25.4 mm by the 1959 international yard and pound agreement).  Kept here rather than taken
-#: from moc.io.units because moc.analysis sits below moc.io in the layers.
-METRES_PER_UNIT = {"m": 1.0, "cm": 0.01, "mm": 0.001, "um": 1e-6, "in": 0.0254, "ft": 0.3048}
-_UNIT_ALIASES = {"meter": "m", "meters": "m", "metre": "m", "metres": "m", "millimeter": "mm", "millimetre": "mm",
-                 "millimeters": "mm", "millimetres": "mm", "centimeter": "cm", "centimetre": "cm", "micron": "um",
-                 "microns": "um", "µm": "um", "inch": "in", "inches": "in", "foot": "ft", "feet": "ft"}
-
-
 def normalise_unit(unit):
-    """Canonical short name of a length unit, or ContourError."""
-    key = _UNIT_ALIASES.get(str(unit).strip().lower(), str(unit).strip().lower())
-    if key not in METRES_PER_UNIT:
-        raise ContourError(f"'{unit}' is not a length unit; use m, cm, mm, um, in, ft or throat.")
-    return key
+    """Canonical short name of a length unit (or 'throat'), or ContourError."""
+    return normalise_length_unit(unit, ContourError, extra=("throat",))
 
 
 _UNIT_RE = re.compile(r"^\s*([A-Za-z]+)\s*(?:\[\s*([^\]]*)\s*\]|_([A-Za-z]+))?\s*$")

@@ -15,8 +15,8 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from moc.errors import CaseFileError
-from moc.io.units import METRES_PER_UNIT as LENGTH_UNITS
-PRESSURE_UNITS = {"Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "bar": 1e5, "atm": 101325.0, "psi": 6894.757293168}
+from moc.units import METRES_PER_UNIT as LENGTH_UNITS
+from moc.units import PASCALS_PER_UNIT as PRESSURE_UNITS
 
 
 def _num(lo=None, hi=None, lo_open=True, integer=False):

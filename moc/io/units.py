@@ -14,38 +14,13 @@ import math
 import warnings
 
 from moc.errors import ExportError
+from moc.units import METRES_PER_UNIT, normalise_length_unit  # noqa: F401 (re-exported for exporters)
 
-#: metres per unit (exact definitions).
-METRES_PER_UNIT = {
-    "m": 1.0,
-    "cm": 0.01,
-    "mm": 0.001,
-    "um": 1e-6,
-    "in": 0.0254,
-    "ft": 0.3048,
-}
-
-_ALIASES = {
-    "meter": "m", "meters": "m", "metre": "m", "metres": "m",
-    "centimeter": "cm", "centimeters": "cm", "centimetre": "cm", "centimetres": "cm",
-    "millimeter": "mm", "millimeters": "mm", "millimetre": "mm", "millimetres": "mm",
-    "micron": "um", "microns": "um", "µm": "um",
-    "inch": "in", "inches": "in", '"': "in",
-    "foot": "ft", "feet": "ft",
-}
 
 
 def normalise_unit(unit):
     """Return the canonical short name of a length unit, or raise ExportError."""
-    if not isinstance(unit, str):
-        raise ExportError(f"a length unit must be a name such as 'mm', got {unit!r}.")
-    key = unit.strip().lower()
-    key = _ALIASES.get(key, key)
-    if key not in METRES_PER_UNIT:
-        raise ExportError(
-            f"'{unit}' is not a length unit; use one of {', '.join(METRES_PER_UNIT)}."
-        )
-    return key
+    return normalise_length_unit(unit, ExportError)
 
 
 def convert(value, from_unit, to_unit):

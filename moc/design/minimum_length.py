@@ -83,16 +83,18 @@ def _check_inputs(exit_mach, gamma, geometry, n):
     return me, g, GEOMETRIES[geometry], int(n), nue
 
 
-def _kernel(theta_c, n, gamma, delta, power):
+def _kernel(theta_c, n, gamma, delta, power, grid=True):
     th = fan_angles(theta_c, n, power)
-    return march_fan(0.0, 1.0, th, th, gamma, delta), th
+    return march_fan(0.0, 1.0, th, th, gamma, delta, grid=grid), th
 
 
-_LAST = {}  # the latest kernel marched by _axis_residual, reused by the designer
+_LAST = {}  # the latest kernel marched by _axis_residual (as fronts), reused by the designer
 
 
 def _axis_residual(theta_c, n, gamma, delta, power, nue):
-    out = _kernel(theta_c, n, gamma, delta, power)
+    # the root search needs only the axis values: the kernel's grid is assembled
+    # (Grid.from_fronts) only for the one kernel the designer keeps
+    out = _kernel(theta_c, n, gamma, delta, power, grid=False)
     _LAST.clear()
     _LAST[(float(theta_c), n, gamma, delta, power)] = out
     return float(out[0][2][-1] - nue)
@@ -237,7 +239,12 @@ def _design(me, g, delta, n, nue):
     theta_c = corner_angle(me, g, delta, n, power)
     cached = _LAST.pop((float(theta_c), n, g, delta, power), None)
     _LAST.clear()
-    (kgrid, axis_x, axis_nu), fan = cached or _kernel(theta_c, n, g, delta, power)
+    if cached is not None:
+        (fronts, axis_x, axis_nu), fan = cached
+        kgrid = Grid.from_fronts(fronts)
+        del fronts
+    else:
+        (kgrid, axis_x, axis_nu), fan = _kernel(theta_c, n, g, delta, power)
     del cached
     nu_e = axis_nu[-1]  # = nue to the root tolerance (exactly for planar)
     mu_e = float(mu_of_nu(np.array([nu_e]), g)[0])
@@ -260,11 +267,8 @@ def _design(me, g, delta, n, nue):
         ggrid = pad
 
     # one grid [i, j]: kernel columns 0..n-1, turning-region columns n..n+m-1
-    full = Grid.empty(n, n + m)
-    for k in ("x", "y", "theta", "nu", "mu"):
-        A = getattr(full, k)
-        A[:, :n] = getattr(kgrid, k)
-        A[:, n:] = getattr(ggrid, k)[:, 1:]
+    full = Grid(*(np.concatenate([getattr(kgrid, k), getattr(ggrid, k)[:, 1:]], axis=1)
+                  for k in ("x", "y", "theta", "nu", "mu")))
     del ggrid, kcum
     wall = mass_balance_wall(full, g, delta, F0)
     del wall["cumulative"]

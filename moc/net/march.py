@@ -87,13 +87,15 @@ def line_axis_source(line, delta):
     return float(np.sin(line.mu[0]) * slope)
 
 
-def march_fan(corner_x, corner_y, fan_theta, fan_nu, gamma, delta):
+def march_fan(corner_x, corner_y, fan_theta, fan_nu, gamma, delta, grid=True):
     """Kernel of a sharp-corner expansion: C- rays j = 0..n-1 leave the corner
     (flow angle fan_theta[j], Prandtl-Meyer angle fan_nu[j], increasing) and
     reach the axis; C+ line i starts on the axis where ray i arrives.
 
     Returns (grid, axis_x, axis_nu): grid[i, j] for 0 <= i <= j < n, the
-    axis points being grid[j, j].
+    axis points being grid[j, j].  With `grid=False` the first item is the
+    list of fronts instead (build the Grid later with `Grid.from_fronts`; a
+    root search that only needs the axis values skips that assembly).
     """
     th = np.asarray(fan_theta, dtype=float)
     nu = np.asarray(fan_nu, dtype=float)
@@ -127,8 +129,8 @@ def march_fan(corner_x, corner_y, fan_theta, fan_nu, gamma, delta):
         front = concat(*parts) if len(parts) > 1 else parts[0]
         fi = np.concatenate(ids)
         fronts.append((fi, s - fi, front))
-    grid = Grid.from_fronts(fronts)
-    return grid, np.array(ax.xs), np.array(ax.nus)
+    out = Grid.from_fronts(fronts) if grid else fronts
+    return out, np.array(ax.xs), np.array(ax.nus)
 
 
 def goursat(cminus, cplus, gamma, delta, flux0=None, flux_target=None):

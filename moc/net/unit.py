@@ -23,6 +23,8 @@ the limit from the upstream point (as in Zucrow and Hoffman, vol. 2, axis
 treatment, from memory).
 """
 
+import math
+
 import numpy as np
 
 from moc.errors import ComputationError
@@ -48,12 +50,12 @@ def source(p_y, p_theta, p_mu, delta):
     caller supplies the limit (see `axis_point`)."""
     if not delta:
         return np.zeros_like(p_y)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(p_y > 0.0, np.sin(p_mu) * np.sin(p_theta) / p_y, 0.0)
+    # 1/inf = 0 on the axis (no division warning, one pass over the arrays)
+    return np.sin(p_mu) * np.sin(p_theta) / np.where(p_y > 0.0, p_y, np.inf)
 
 
 def _check(p, what, it):
-    if not (np.all(np.isfinite(p.x)) and np.all(np.isfinite(p.nu)) and np.all(np.isfinite(p.y))):
+    if not np.isfinite(np.sum(p.x) + np.sum(p.nu) + np.sum(p.y)):  # NaN/inf anywhere
         raise ComputationError(
             f"the {what} unit process produced non-finite values (characteristics did not intersect "
             "or the flow left the supersonic range); the net cannot be continued here."
@@ -178,8 +180,12 @@ def interior_point(a, b, gamma, delta, tol=TOL, source_a=None, guess=None, cminu
 
 def _finish(a, b, x, y, th, nu, mu, s1, s2, it, gamma, cminus_forward):
     _crossing(a, b, s1, s2 if cminus_forward else np.abs(s2), it)
-    # finish the Mach angle to round-off at the converged nu
-    mu = mu_of_nu(nu, gamma, mu)
+    # finish the Mach angle to round-off at the converged nu: the last pass left t one
+    # Newton step from it, and Newton converges quadratically (as mu_of_nu, cheaper)
+    k, c = pm_constants(gamma)
+    kk = 1.0 / (k * k)
+    t = _newton_t(_newton_t(0.5 * np.pi - mu, nu, k, kk, c), nu, k, kk, c)
+    mu = 0.5 * np.pi - t
     p = Points(x, y, th, nu, mu)
     _check(p, "interior point", it)
     return p
@@ -188,6 +194,8 @@ def _finish(a, b, x, y, th, nu, mu, s1, s2, it, gamma, cminus_forward):
 def _crossing(a, b, s1, s2, it):
     """A new point behind A on its C+ or behind B on its C- means two characteristics of
     one family have crossed (their envelope is where a shock forms): say so and where."""
+    if it < MAXITER and min(s1.min(initial=0.0), s2.min(initial=0.0)) >= -1e-9:
+        return  # the common case, in two reductions
     scale = 1e-9 * (1.0 + np.abs(a.y) + np.abs(b.y))
     bad = (s1 < -scale) | (s2 < -scale)
     if it >= MAXITER:
@@ -231,6 +239,8 @@ def axis_point(a, gamma, delta, tol=TOL, return_source=False):
     """
     k, c = pm_constants(gamma)
     kk = 1.0 / (k * k)
+    if np.size(a.x) == 1:  # one point (as the marchers call it): plain floats, same arithmetic
+        return _axis_one(a, gamma, delta, tol, return_source, k, kk, c)
     sa = source(a.y, a.theta, a.mu, delta)
     am = a.theta - a.mu
     km = a.nu + a.theta
@@ -261,6 +271,55 @@ def axis_point(a, gamma, delta, tol=TOL, return_source=False):
     _check(p, "axis point", it)
     if return_source:
         return p, np.asarray(s_p, dtype=float) * np.ones_like(x)
+    return p
+
+
+def _newton_t1(t, nu, k, kk, c):
+    """`_newton_t` for one float."""
+    tb = math.tan(t)
+    tb2 = tb * tb
+    if tb < 1e-3:  # series form of nu(t) (only reached for t < 2e-3, as in _newton_t)
+        nv = tb * tb2 * ((1.0 - kk) / 3.0 - tb2 * ((1.0 - kk * kk) / 5.0 - tb2 * (1.0 - kk**3) / 7.0))
+    else:
+        nv = k * math.atan(tb / k) - t
+    cn = float(np.cbrt(nv))
+    dt = (cn - float(np.cbrt(max(nu, 1e-300)))) * 3.0 * cn * cn * (1.0 + tb2 * kk) / (c * tb2)
+    return min(max(t - dt, 0.5 * t), 0.25 * math.pi + 0.5 * t)
+
+
+def _axis_one(a, gamma, delta, tol, return_source, k, kk, c):
+    """`axis_point` for a single upstream point, in floats (saves the NumPy call overhead
+    that dominates one-point arrays; the iteration and its stopping test are the same)."""
+    shape = np.shape(a.x)
+    ax, ay, ath, anu, amu = (float(np.ravel(v)[0]) for v in a)
+    sa = math.sin(amu) * math.sin(ath) / ay if (delta and ay > 0.0) else 0.0
+    am = ath - amu
+    km = anu + ath
+    alpha = am
+    t = 0.5 * math.pi - amu
+    nu = x = None
+    prev = math.inf
+    for it in range(MAXITER + 1):
+        s = -ay / math.sin(alpha)
+        xn = ax + s * math.cos(alpha)
+        nun = km + s * sa
+        t = _newton_t1(_newton_t1(t, nun, k, kk, c), nun, k, kk, c)
+        if nu is not None:
+            err = max(abs(xn - x), abs(nun - nu))
+        else:
+            err = math.inf
+        x, nu = xn, nun
+        if _done(err, prev, tol):
+            break
+        prev = err
+        alpha = 0.5 * (am - (0.5 * math.pi - t))
+    # finish to round-off: Newton converges quadratically from the converged iterate
+    mu = 0.5 * math.pi - _newton_t1(_newton_t1(t, nu, k, kk, c), nu, k, kk, c)
+    full = (lambda v: np.array([v])) if shape == (1,) else (lambda v: np.full(shape, v, dtype=float))
+    p = Points(full(x), full(0.0), full(0.0), full(nu), full(mu))
+    _check(p, "axis point", it)
+    if return_source:
+        return p, full(sa)
     return p
 
 

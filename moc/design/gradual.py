@@ -37,16 +37,15 @@ import math
 import numpy as np
 
 from moc import throat as _throat
-from moc.errors import ComputationError, InputError, MachError
+from moc.errors import ComputationError, InputError
 from moc.flow import area_ratio, pressure_ratio, prandtl_meyer
-from moc.flow._checks import check_gamma
+from moc.design._inputs import check_design_inputs
 from moc.net._pm import mu_of_nu
 from moc.net.march import goursat
 from moc.net.points import Points
 from moc.net.wall import cumulative_flux, mass_balance_wall, throat_flux, trace_streamline
 from moc.result import Net, Result
 
-GEOMETRIES = {"planar": 0, "axisymmetric": 1}
 
 
 class _Contour:
@@ -98,17 +97,7 @@ class _Contour:
 
 
 def _check(exit_mach, gamma, geometry, n, throat_curvature, throat_solution):
-    g = check_gamma(gamma)
-    if geometry not in GEOMETRIES:
-        raise InputError(f"geometry must be 'planar' or 'axisymmetric', got {geometry!r}.")
-    try:
-        me = float(exit_mach)
-    except (TypeError, ValueError):
-        raise MachError(f"exit Mach number must be a number above 1, got {exit_mach!r}.") from None
-    if not math.isfinite(me) or me <= 1.0:
-        raise MachError(f"exit Mach number must be a finite number above 1, got {exit_mach!r}.")
-    if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or n < 5:
-        raise InputError(f"the number of characteristics must be a whole number of at least 5, got {n!r}.")
+    me, g, delta, n = check_design_inputs(exit_mach, gamma, geometry, n, min_n=5)
     _throat.check_solution(throat_solution)
     if throat_solution == "kliegel-levine":
         raise InputError(
@@ -116,7 +105,7 @@ def _check(exit_mach, gamma, geometry, n, throat_curvature, throat_solution):
             "a gradual-expansion design starts from 'sauer' or 'hall'."
         )
     R = _throat.check_curvature(throat_curvature, throat_solution)
-    return me, g, GEOMETRIES[geometry], int(n), R
+    return me, g, delta, n, R
 
 
 class _TooLarge(Exception):

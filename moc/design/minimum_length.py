@@ -27,9 +27,9 @@ import math
 
 import numpy as np
 
-from moc.errors import ComputationError, InputError, MachError
+from moc.errors import ComputationError, MachError
 from moc.flow import area_ratio, pressure_ratio, prandtl_meyer
-from moc.flow._checks import check_gamma
+from moc.design._inputs import check_design_inputs
 from moc.net._pm import mu_of_nu
 from moc.net.assemble import grid_cells, net_arrays, zipper
 from moc.net.grid import Grid
@@ -40,7 +40,6 @@ from moc.result import Net, Result
 
 #: exponent p of the fan clustering h(t) = p t^p - (p-1) t^(p+1)
 CLUSTER_POWER = 8
-GEOMETRIES = {"planar": 0, "axisymmetric": 1}
 #: smallest exit Mach angle accepted (deg): below it characteristics and streamlines
 #: are nearly parallel, the intersections of the net become ill-conditioned
 MIN_EXIT_MACH_ANGLE_DEG = 3.0
@@ -56,17 +55,7 @@ def fan_angles(theta_c, n, power=CLUSTER_POWER):
 
 
 def _check_inputs(exit_mach, gamma, geometry, n):
-    g = check_gamma(getattr(gamma, "gamma", gamma))  # a number or a moc.gas.PerfectGas
-    if geometry not in GEOMETRIES:
-        raise InputError(f"geometry must be 'planar' or 'axisymmetric', got {geometry!r}.")
-    try:
-        me = float(exit_mach)
-    except (TypeError, ValueError):
-        raise MachError(f"exit Mach number must be a number above 1, got {exit_mach!r}.") from None
-    if not math.isfinite(me) or me <= 1.0:
-        raise MachError(f"exit Mach number must be a finite number above 1 for a supersonic nozzle, got {exit_mach!r}.")
-    if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or n < 3:
-        raise InputError(f"the number of characteristics must be a whole number of at least 3, got {n!r}.")
+    me, g, delta, n = check_design_inputs(exit_mach, gamma, geometry, n, min_n=3)
     if me > MAX_EXIT_MACH:
         raise MachError(
             f"exit Mach number {me:g} is too high for this designer: the exit Mach angle must be at "
@@ -80,7 +69,7 @@ def _check_inputs(exit_mach, gamma, geometry, n):
             "but the wall at a sharp corner must turn by less than 90 deg; lower the exit Mach number "
             "(or raise gamma)."
         )
-    return me, g, GEOMETRIES[geometry], int(n), nue
+    return me, g, delta, n, nue
 
 
 def _kernel(theta_c, n, gamma, delta, power, grid=True):
@@ -117,13 +106,13 @@ def corner_angle(exit_mach, gamma, delta, n, power=CLUSTER_POWER, tol=1e-10):
             except ComputationError:  # far too strong a fan: the net breaks down
                 return np.inf
         # bracket: the axisymmetric corner angle lies below the planar nu(Me)/2
-        lo, flo = 0.0, -nue
+        lo = 0.0
         for frac in (0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 1.0):
             t = frac * 0.5 * nue
             ft = f(t)
             if ft > 0.0:
                 break
-            lo, flo = t, ft
+            lo = t
         else:
             raise ComputationError(
                 "no corner angle up to nu(Me)/2 brings the axis to the exit Mach number; "
@@ -278,7 +267,6 @@ def _design(me, g, delta, n, nue):
     wx = np.concatenate([[0.0], wall["x"]])
     wy = np.concatenate([[1.0], wall["y"]])
     wth = np.concatenate([[theta_c], wall["theta"]])
-    wnu = np.concatenate([[fan[-1]], wall["nu"]])
     wmu = np.concatenate([[corner.mu[-1]], wall["mu"]])
     wm = 1.0 / np.sin(wmu)
 

@@ -61,10 +61,14 @@ def run_case(case: Case, progress=None):
     if performance is not None:
         result.summary.update(performance(result, ambient_ratio=ambient_ratio))
     result.summary.update(dimensional_summary(case, result.summary))
-    inputs = case.to_dict()
-    inputs["throat"] = {"value": case["nozzle"]["throat_size"], "unit": case["nozzle"]["throat_unit"]}
-    inputs["design"] = result.inputs
-    result.inputs = inputs
+    # the validated case whole (it re-runs as it is), the throat size every exporter reads,
+    # and the designer's own arguments
+    result.inputs = {
+        "case": case.to_dict(),
+        "case_source": case.source,
+        "throat": {"value": case["nozzle"]["throat_size"], "unit": case["nozzle"]["throat_unit"]},
+        "design": result.inputs,
+    }
     return result
 
 

@@ -19,7 +19,6 @@ triangulation, coalescence_point, save_figure, overview, FIGURES, SIZES.
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 import matplotlib
@@ -677,20 +676,8 @@ def save_figure(fig, path, force=False, dpi=150):
         raise InputError(f"dpi must be a number between 10 and 1200, got {dpi!r}.")
     with atomic_path(path, force=force) as tmp:
         fig.savefig(tmp, format=fmt, dpi=dpi, metadata=_metadata(fmt))
-        readable(tmp)
     plt.close(fig)
     return path
-
-
-def readable(path):
-    """Give a freshly written temporary file the usual permissions (0666 less the umask).
-
-    Temporary files are created private (0600); a finished figure or report
-    should be as readable as any other file the user writes.
-    """
-    mask = os.umask(0)
-    os.umask(mask)
-    os.chmod(path, 0o666 & ~mask)
 
 
 def _metadata(fmt):

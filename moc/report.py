@@ -264,8 +264,8 @@ def coarse_design(result):
     if result.kind != "design":
         return None
     inputs = result.inputs or {}
-    noz = inputs.get("nozzle")
-    if not isinstance(noz, dict) or "characteristics" not in noz:
+    case = inputs.get("case")
+    if not isinstance(case, dict) or "nozzle" not in case:
         return _coarse_from_designer_inputs(inputs)
     try:
         from moc.io.case import SCHEMA, validate
@@ -274,26 +274,22 @@ def coarse_design(result):
         return None
     raw = {}
     for sec, spec in SCHEMA.items():
-        if not sec:
+        given = case.get(sec or "meta")
+        if not isinstance(given, dict):
             continue
-        given = inputs.get(sec)
-        if sec == "throat" and isinstance(given, dict) and "value" in given:
-            continue  # the throat size, not the [throat] section (restored below)
-        if isinstance(given, dict):
-            raw[sec] = {k: v for k, v in given.items() if k in spec and v is not None}
-    meta = inputs.get("meta")
-    if isinstance(meta, dict):
-        raw.update({k: v for k, v in meta.items() if k in SCHEMA[""] and v is not None})
-    n = int(noz["characteristics"])
+        kept = {k: v for k, v in given.items() if k in spec and v is not None}
+        if sec:
+            raw[sec] = kept
+        else:  # top-level keys (title, description) are stored as 'meta'
+            raw.update(kept)
+    n = int(raw["nozzle"]["characteristics"])
     nc = max(3, n // 2)
     if nc >= n:
         return None
-    raw.setdefault("nozzle", {})["characteristics"] = nc
+    raw["nozzle"]["characteristics"] = nc
     raw.setdefault("output", {})["plots"] = False
-    _restore_gradual(raw, inputs)
     try:
-        case = validate(raw, source="stored inputs")
-        return run_case(case)
+        return run_case(validate(raw, source="stored inputs"))
     except (InputError, ComputationError):
         return None
 
@@ -321,21 +317,6 @@ def _coarse_from_designer_inputs(d):
     except (ImportError, InputError, ComputationError):
         return None
     return None
-
-
-def _restore_gradual(raw, inputs):
-    """The saved inputs keep the throat size under 'throat'; the rounded-throat keys live in the designer's inputs."""
-    d = inputs.get("design") or {}
-    th = raw.setdefault("throat", {})
-    for src, dst in (("throat_curvature", "curvature"), ("inflection_deg", "inflection_deg"),
-                     ("length", "length"), ("target_length", "length"), ("throat_solution", "solution")):
-        v = d.get(src)
-        if v is not None and dst not in th:
-            th[dst] = v
-    if th.get("inflection_deg") is not None and th.get("length") is not None:
-        th.pop("length")
-    if not th:
-        raw.pop("throat")
 
 
 # -- figures --------------------------------------------------------------------
@@ -540,7 +521,7 @@ def build_report(result, result_dir=None, coarse=None, recompute=True, figures=T
     if coarse is None and recompute:
         coarse = coarse_design(result)
     study = refinement_study(result, coarse) if coarse is not None else None
-    meta = (result.inputs or {}).get("meta") or {}
+    meta = ((result.inputs or {}).get("case") or {}).get("meta") or {}
     title = meta.get("title") if isinstance(meta, dict) else None
     if not title and isinstance(s.get("contour"), str) and s["contour"] != "contour":
         title = s["contour"]
@@ -595,7 +576,6 @@ def build_report(result, result_dir=None, coarse=None, recompute=True, figures=T
 
 def write_report(result_dir, path=None, force=False, coarse=None, recompute=True, dpi=96):
     """Load DIR's result and write its HTML report (default DIR/report.html) atomically; return the path."""
-    from moc.plot import readable
     from moc.result import Result
 
     result = Result.load(result_dir)
@@ -610,5 +590,4 @@ def write_report(result_dir, path=None, force=False, coarse=None, recompute=True
     text = build_report(result, result_dir=result_dir, coarse=coarse, recompute=recompute, dpi=dpi)
     with atomic_path(path, force=force) as tmp:
         tmp.write_text(text, encoding="utf-8")
-        readable(tmp)
     return path

@@ -280,6 +280,25 @@ class InitialLine:
         return float(np.arcsin(self.x[-1] / self.throat_curvature))
 
 
+def _start_inputs(R, gamma, geometry, solution, n, x, min_n, what):
+    """Checked inputs of an initial-value line: (g, d, solution, R, n, order, x, shift), x defaulting to
+    1.25 times the axis sonic-point shift and required between that point and half the arc radius."""
+    g = check_gamma(gamma)
+    d = check_geometry(geometry)
+    solution = _field_solution(solution)
+    R = check_curvature(R, solution)
+    if isinstance(n, bool) or not isinstance(n, (int, np.integer, float)) or int(n) != n or n < min_n:
+        raise InputError(f"{what} needs n of at least {min_n}, got n = {n!r}.")
+    shift = float(sonic_line(np.array([0.0]), R, g, geometry, solution)[0])
+    x0 = 1.25 * shift if x is None else float(x)
+    if not np.isfinite(x0) or x0 <= shift or x0 >= 0.5 * R:
+        raise InputError(
+            f"{what} must lie downstream of the axis sonic point (x > {shift:.5g}) "
+            f"and within the throat arc (x < {0.5 * R:.5g}); got x = {x!r}."
+        )
+    return g, d, solution, R, int(n), _order(solution), x0, shift
+
+
 def initial_line(R, gamma=1.4, geometry="axisymmetric", solution="sauer", n=51, x=None):
     """Supersonic initial-value line across a rounded throat.
 
@@ -288,21 +307,7 @@ def initial_line(R, gamma=1.4, geometry="axisymmetric", solution="sauer", n=51, 
     the line is crossed by both characteristic families: theta + mu < 90 deg).
     Points are evenly spaced from the axis to the throat arc.
     """
-    g = check_gamma(gamma)
-    d = check_geometry(geometry)
-    solution = _field_solution(solution)
-    R = check_curvature(R, solution)
-    if int(n) != n or n < 3:
-        raise InputError(f"the initial line needs at least 3 points, got n = {n!r}.")
-    n = int(n)
-    order = _order(solution)
-    shift = float(sonic_line(np.array([0.0]), R, g, geometry, solution)[0])
-    x0 = 1.25 * shift if x is None else float(x)
-    if not np.isfinite(x0) or x0 <= shift or x0 >= 0.5 * R:
-        raise InputError(
-            f"the initial line must lie downstream of the axis sonic point (x > {shift:.5g}) and "
-            f"within the throat arc (x < {0.5 * R:.5g}); got x = {x0!r}."
-        )
+    g, d, solution, R, n, order, x0, shift = _start_inputs(R, gamma, geometry, solution, n, x, 3, "the initial line")
     yw = float(throat_wall(x0, R)[0])
     y = np.linspace(0.0, yw, n)
     xs = np.full(n, x0)
@@ -337,21 +342,8 @@ def initial_cminus(R, gamma=1.4, geometry="axisymmetric", solution="sauer", n=50
     characteristic over the 1-D sonic flow through the throat, evaluated on
     the fine integration path).
     """
-    g = check_gamma(gamma)
-    d = check_geometry(geometry)
-    solution = _field_solution(solution)
-    R = check_curvature(R, solution)
-    if int(n) != n or n < 2:
-        raise InputError(f"the initial characteristic needs at least 3 points, got n = {n!r}.")
-    n = int(n)
-    order = _order(solution)
-    shift = float(sonic_line(np.array([0.0]), R, g, geometry, solution)[0])
-    xa = 1.25 * shift if x_axis is None else float(x_axis)
-    if not np.isfinite(xa) or xa <= shift or xa >= 0.5 * R:
-        raise InputError(
-            f"the initial characteristic must cross the axis downstream of the sonic point (x > {shift:.5g}) "
-            f"and within the throat arc (x < {0.5 * R:.5g}); got x = {x_axis!r}."
-        )
+    g, d, solution, R, n, order, xa, shift = _start_inputs(R, gamma, geometry, solution, n, x_axis, 2,
+                                                           "the initial characteristic")
 
     def dxdy(x, y):
         u, v = _velocity(np.array([x]), np.array([y]), R, g, d, order)

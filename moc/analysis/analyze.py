@@ -79,6 +79,29 @@ def _downstream_of_cplus(D, pvalid, R, end):
     return X > xc + 1e-12
 
 
+def _shock_birth(state, dfl, g):
+    """A shock starting at a first crossing: (shock start dict, flow state just behind it).
+
+    `state` is the flow at the crossing (x, y, theta, mach, nu, lnp0) in the frame the shock is
+    fitted in; the shock starts as a Mach wave, or, when the two crossing characteristics differ by a
+    deflection dfl > 0 below 0.9 theta_max, as the weak oblique shock for that deflection (NACA
+    Report 1135 relations), which vanishes as the net is refined.
+    """
+    m1, th1 = float(state["mach"]), float(state["theta"])
+    mu = math.asin(1.0 / m1)
+    shock = dict(x=float(state["x"]), y=float(state["y"]), phi=th1 - mu, beta=mu, theta1=th1, m1=m1, m2=m1,
+                 p2_p1=1.0, p02_p01=1.0, lnp01=state["lnp0"], deflection=0.0)
+    behind = dict(state)
+    if np.isfinite(dfl) and dfl > 0 and dfl < 0.9 * float(max_deflection(m1, g)[0]):
+        sst = oblique_shock(m1, dfl, g)
+        b0, m2 = float(sst.beta), float(sst.m2)
+        behind.update(theta=th1 - dfl, mach=m2, nu=float(prandtl_meyer(m2, g)),
+                      lnp0=state["lnp0"] + math.log(float(sst.p02_p01)))
+        shock.update(phi=th1 - b0, beta=b0, m2=m2, p2_p1=float(sst.p2_p1), p02_p01=float(sst.p02_p01),
+                     deflection=dfl)
+    return shock, behind
+
+
 def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=None, step_factor=1.0,
             initial=None, name="contour", throat_solution="hall", max_reflections=6):
     """Analyse the flow along `wall` (a moc.analysis.contour.Wall); returns a Result (kind "analysis").
@@ -159,21 +182,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
                 front0["cm"] = np.concatenate([[-1], np.full(jd.size, a)])[fin]
                 stm = flip(st)
                 dfl = th_b - st["theta"]
-                mu = math.asin(1.0 / st["mach"])
-                start_shock = dict(x=cr.x, y=-cr.y, phi=stm["theta"] - mu, beta=mu, theta1=stm["theta"],
-                                   m1=st["mach"], m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"],
-                                   deflection=0.0)
-                beh = dict(stm)
-                if np.isfinite(dfl) and dfl > 0:
-                    tmax, _ = max_deflection(st["mach"], g)
-                    if dfl < 0.9 * float(tmax):
-                        sst = oblique_shock(st["mach"], dfl, g)
-                        b0 = float(sst.beta)
-                        beh.update(theta=stm["theta"] - dfl, mach=float(sst.m2),
-                                   nu=float(prandtl_meyer(float(sst.m2), g)),
-                                   lnp0=st["lnp0"] + math.log(float(sst.p02_p01)))
-                        start_shock.update(phi=stm["theta"] - b0, beta=b0, m2=float(sst.m2), p2_p1=float(sst.p2_p1),
-                                           p02_p01=float(sst.p02_p01), deflection=dfl)
+                start_shock, beh = _shock_birth(stm, dfl, g)
                 front0m = flip(front0)
                 front0m["theta"][0], front0m["mach"][0] = beh["theta"], beh["mach"]
                 front0m["nu"][0], front0m["lnp0"][0] = beh["nu"], beh["lnp0"]
@@ -198,21 +207,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
                 down = [(a + 1, d + 1), (a + 1, d)]
                 th_b = float(np.nanmean([D["theta"][i, j] for i, j in down if i < net.rows]))
                 dfl = st["theta"] - th_b
-                mu = math.asin(1.0 / st["mach"])
-                beh = dict(st)
-                start_shock = dict(x=cr.x, y=cr.y, phi=st["theta"] - mu, beta=mu, theta1=st["theta"],
-                                   m1=st["mach"], m2=st["mach"], p2_p1=1.0, p02_p01=1.0, lnp01=st["lnp0"],
-                                   deflection=0.0)
-                if np.isfinite(dfl) and dfl > 0:
-                    tmax, _ = max_deflection(st["mach"], g)
-                    if dfl < 0.9 * float(tmax):
-                        sst = oblique_shock(st["mach"], dfl, g)
-                        b0 = float(sst.beta)
-                        beh.update(theta=st["theta"] - dfl, mach=float(sst.m2),
-                                   nu=float(prandtl_meyer(float(sst.m2), g)),
-                                   lnp0=st["lnp0"] + math.log(float(sst.p02_p01)))
-                        start_shock.update(phi=st["theta"] - b0, beta=b0, m2=float(sst.m2), p2_p1=float(sst.p2_p1),
-                                           p02_p01=float(sst.p02_p01), deflection=dfl)
+                start_shock, beh = _shock_birth(st, dfl, g)
                 front0 = {k: np.concatenate([[beh[k]], D[k][idx_a, idx_d]]) for k in KEYS}
                 fin = np.isfinite(front0["mach"])
                 front0 = {k: v[fin] for k, v in front0.items()}

@@ -143,7 +143,7 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
         m0 = float(net.data["mach"][0, 0])
         uniform = dict(theta=0.0, nu=float(net.data["nu"][0, 0]), mach=m0, lnp0=0.0)
     up = UpstreamField(net, ok, uniform=uniform)
-    shocks, fits, coalescence = [], [], None
+    shocks, coalescence = [], None
     # --- where does a shock start? ---------------------------------------
     th_w0 = wall.angle_start
     start_shock = None
@@ -320,7 +320,6 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
             py, px = paths[ci + 1]["y"], paths[ci + 1]["x"]
             o = np.argsort(py)
             cut = (py[o], px[o])
-        prev_idx = None
         gidx = []
         for fi, F0 in enumerate(f_.fronts):
             F = {k: F0[k] for k in KEYS}
@@ -337,7 +336,6 @@ def analyze(wall, gamma=1.4, geometry="planar", n=40, start="corner", mach_in=No
             labs_p.append(np.full(int(keep.sum()), 10_000_000 + 100_000 * ci + fi, np.int64))
             labs_m.append(np.asarray(F0.get("cm", np.arange(m) + 20_000_000), np.int64)[keep] + 1_000_000 * ci)
             gidx.append(idx)
-            prev_idx = idx
             off += int(keep.sum())
             # contiguous runs only: a segment must not jump over dropped points (across the next shock)
             runs = np.split(np.arange(m), np.flatnonzero(np.diff(keep.astype(int)) != 0) + 1)
